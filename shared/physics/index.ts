@@ -1,0 +1,10 @@
+/** The science core: pure functions, no I/O; used by the server and the browser alike. */
+export * from './constants'
+export * from './errors'
+export * from './units'
+export * from './rates'
+export * from './redox'
+export * from './reorganization'
+export * from './kinetics'
+export * from './analysis'
+export * from './fit'
