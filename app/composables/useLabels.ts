@@ -1,0 +1,21 @@
+/** Plain-language labels for the format's enumerations. */
+export const PROCESS_LABELS: Record<string, string> = {
+  'charge-separation': 'charge separation', 'charge-recombination': 'charge recombination', 'charge-shift': 'charge shift', 'hole-transfer': 'hole transfer', other: 'other'
+}
+export const TECHNIQUE_LABELS: Record<string, string> = {
+  'transient-absorption': 'transient absorption', tcspc: 'time-correlated photon counting', upconversion: 'fluorescence upconversion', 'streak-camera': 'streak camera',
+  'pulse-radiolysis': 'pulse radiolysis', 'microwave-conductivity': 'microwave conductivity', 'steady-state-quenching': 'steady-state quenching', other: 'other'
+}
+export function label (value: string | null | undefined): string {
+  if (!value) return '—'
+  return PROCESS_LABELS[value] ?? TECHNIQUE_LABELS[value] ?? value
+}
+export function fmt (v: number | null | undefined, digits = 3): string {
+  return v === null || v === undefined || !Number.isFinite(v) ? '—' : v.toFixed(digits)
+}
+export function fmtRate (v: number | null | undefined): string {
+  return v === null || v === undefined ? '—' : v.toExponential(2)
+}
+export function fmtDate (d: string | Date | null | undefined): string {
+  return d ? new Date(d).toISOString().slice(0, 10) : '—'
+}

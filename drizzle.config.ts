@@ -1,0 +1,8 @@
+import { defineConfig } from 'drizzle-kit'
+
+export default defineConfig({
+  dialect: 'sqlite',
+  schema: './server/database/schema.ts',
+  out: './drizzle',
+  dbCredentials: { url: process.env.NUXT_DATABASE_URL ?? 'file:./data/crosspoint.db' }
+})

@@ -1,0 +1,61 @@
+import { cpSync, existsSync } from 'node:fs'
+import { resolve } from 'node:path'
+
+// https://nuxt.com/docs/api/nuxt-config
+export default defineNuxtConfig({
+  compatibilityDate: '2025-07-15',
+  devtools: { enabled: false },
+  telemetry: false,
+  modules: ['@nuxtjs/tailwindcss', '@pinia/nuxt', '@sidebase/nuxt-auth'],
+  css: ['~/assets/css/main.css'],
+  components: [{ path: '~/components', pathPrefix: false }],
+  tailwindcss: { cssPath: '~/assets/css/main.css', configPath: 'tailwind.config.ts', viewer: false },
+  app: {
+    head: {
+      htmlAttrs: { lang: 'en' },
+      title: 'Crosspoint',
+      titleTemplate: '%s · Crosspoint',
+      meta: [
+        { name: 'description', content: 'A shared, curated archive of electron-transfer rate measurements' },
+        { name: 'viewport', content: 'width=device-width, initial-scale=1' }
+      ],
+      link: [{ rel: 'icon', type: 'image/svg+xml', href: '/favicon.svg' }]
+    }
+  },
+  auth: {
+    baseURL: '/api/auth',
+    originEnvKey: 'AUTH_ORIGIN',
+    globalAppMiddleware: false,
+    provider: { type: 'authjs', trustHost: false, defaultProvider: 'credentials', addDefaultCallbackUrl: true }
+  },
+  runtimeConfig: {
+    databaseUrl: 'file:./data/crosspoint.db',
+    databaseAuthToken: '',
+    dataDir: './data',
+    authSecret: 'crosspoint-demo-secret-change-me-in-production',
+    smtpUrl: '',
+    registrarUrl: '',
+    registrarPrefix: '10.99999',
+    public: {
+      baseUrl: 'http://localhost:3000',
+      version: process.env.npm_package_version ?? '0.1.0'
+    }
+  },
+  nitro: {
+    experimental: { openAPI: true },
+    openAPI: {
+      production: 'runtime',
+      route: '/_openapi.json',
+      meta: { title: 'Crosspoint API', description: 'Public HTTP API of the Crosspoint electron-transfer rate archive', version: '1' },
+      ui: { scalar: false, swagger: false }
+    },
+    hooks: {
+      compiled (nitro) {
+        // Migrations travel with the built server so that it can migrate from any working directory.
+        const from = resolve(nitro.options.rootDir, 'drizzle')
+        if (existsSync(from)) cpSync(from, resolve(nitro.options.output.serverDir, 'drizzle'), { recursive: true })
+      }
+    }
+  },
+  typescript: { strict: true }
+})

@@ -1,0 +1,33 @@
+import CredentialsProviderModule from 'next-auth/providers/credentials'
+import { NuxtAuthHandler } from '#auth'
+import { verifyPassword } from '../../utils/auth'
+
+// next-auth providers are CommonJS; under ESM the factory sits on `.default`.
+const CredentialsProvider = ((CredentialsProviderModule as unknown as { default?: typeof CredentialsProviderModule }).default ?? CredentialsProviderModule)
+
+export default NuxtAuthHandler({
+  secret: useRuntimeConfig().authSecret,
+  session: { strategy: 'jwt', maxAge: 7 * 24 * 3600 },
+  pages: { signIn: '/signin' },
+  providers: [
+    CredentialsProvider({
+      name: 'password',
+      credentials: { email: { label: 'E-mail', type: 'email' }, password: { label: 'Password', type: 'password' } },
+      async authorize (credentials) {
+        if (!credentials?.email || !credentials.password) return null
+        const user = await verifyPassword(credentials.email, credentials.password)
+        return user ? { id: user.id, name: user.name, email: user.email, role: user.role } as never : null
+      }
+    })
+  ],
+  callbacks: {
+    jwt ({ token, user }) {
+      if (user) { token.uid = user.id; token.role = (user as unknown as { role: string }).role }
+      return token
+    },
+    session ({ session, token }) {
+      if (session.user) Object.assign(session.user, { id: token.uid, role: token.role })
+      return session
+    }
+  }
+})

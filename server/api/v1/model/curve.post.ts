@@ -1,0 +1,17 @@
+import { computeCurve, curveBodySchema, type CurveBody } from '../../../utils/model'
+import { readValidated } from '../../../utils/validation'
+
+defineRouteMeta({
+  openAPI: {
+    tags: ['model'],
+    summary: 'Classical or semi-classical rate curve',
+    description: 'log10 k (and k) for up to 100 000 driving forces (eV). Energies in eV, temperature in K; 422 with a JSON pointer per bad field.',
+    requestBody: { required: true, content: { 'application/json': { schema: { type: 'object' } } } },
+    responses: { 200: { description: '{ points: [{ deltaG, rate, log10Rate }], termsUsed }' }, 422: { description: 'Invalid input' } }
+  }
+})
+
+export default defineEventHandler(async (event) => {
+  const body = await readValidated<CurveBody>(event, curveBodySchema)
+  return computeCurve(body)
+})

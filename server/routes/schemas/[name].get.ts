@@ -1,0 +1,15 @@
+import rateRecord from '../../../schemas/rate-record.v1.json'
+import dataset from '../../../schemas/dataset.v1.json'
+import { httpError } from '../../utils/errors'
+
+const SCHEMAS: Record<string, object> = { 'rate-record.v1.json': rateRecord, 'dataset.v1.json': dataset }
+
+/** The public JSON Schemas; `$id` is rewritten to this deployment's public URL of the schema. */
+export default defineEventHandler((event) => {
+  const name = getRouterParam(event, 'name') ?? ''
+  const schema = SCHEMAS[name]
+  if (!schema) throw httpError(404, `No schema named ${name}; known: ${Object.keys(SCHEMAS).join(', ')}`)
+  setHeader(event, 'content-type', 'application/schema+json; charset=utf-8')
+  setHeader(event, 'cache-control', 'public, max-age=3600')
+  return { ...schema, $id: `${useRuntimeConfig().public.baseUrl.replace(/\/$/, '')}/schemas/${name}` }
+})

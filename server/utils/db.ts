@@ -1,0 +1,84 @@
+/**
+ * One lazily created Drizzle/libSQL client per process. The first use applies pending migrations;
+ * every caller awaits the same promise (Nitro does not await async plugins).
+ */
+import { accessSync, constants, existsSync, mkdirSync } from 'node:fs'
+import { dirname, isAbsolute, resolve } from 'node:path'
+import { fileURLToPath } from 'node:url'
+import { createClient, type Client } from '@libsql/client'
+import { drizzle, type LibSQLDatabase } from 'drizzle-orm/libsql'
+import { migrate } from 'drizzle-orm/libsql/migrator'
+import * as schema from '../database/schema'
+
+export type Db = LibSQLDatabase<typeof schema>
+export { schema }
+
+let ready: Promise<{ db: Db, client: Client }> | undefined
+
+/** Where the drizzle-kit migrations are: an explicit override, the project folder, or beside the built server. */
+export function findMigrationsFolder (): string {
+  const candidates = [
+    process.env.NUXT_MIGRATIONS_DIR,
+    resolve(process.cwd(), 'drizzle'),
+    process.argv[1] ? resolve(dirname(process.argv[1]), 'drizzle') : undefined
+  ]
+  // Walk up from this module (inside .output/server/chunks/… once built).
+  let dir = dirname(fileURLToPath(import.meta.url))
+  for (let i = 0; i < 6; i++) { candidates.push(resolve(dir, 'drizzle')); dir = dirname(dir) }
+  for (const c of candidates) if (c && existsSync(resolve(c, 'meta/_journal.json'))) return c
+  throw new Error('Crosspoint cannot find its database migrations (drizzle/meta/_journal.json); set NUXT_MIGRATIONS_DIR')
+}
+
+/** For a file: URL, make sure the folder exists and is writable, with a message that says what to fix. */
+function prepareFileDatabase (url: string): string {
+  if (!url.startsWith('file:')) return url
+  const raw = url.slice('file:'.length)
+  const path = isAbsolute(raw) ? raw : resolve(process.cwd(), raw)
+  const folder = dirname(path)
+  try {
+    mkdirSync(folder, { recursive: true })
+    accessSync(folder, constants.W_OK)
+    if (existsSync(path)) accessSync(path, constants.W_OK | constants.R_OK)
+  } catch (e) {
+    const code = (e as NodeJS.ErrnoException).code ?? 'error'
+    throw new Error(`Crosspoint cannot use the database file ${path} (${code}): make its folder exist and be writable, or set NUXT_DATABASE_URL`)
+  }
+  return `file:${path}`
+}
+
+export async function openDatabase (url: string, authToken?: string): Promise<{ db: Db, client: Client }> {
+  const client = createClient({ url: prepareFileDatabase(url), authToken: authToken || undefined })
+  if (url.startsWith('file:')) {
+    await client.execute('PRAGMA journal_mode = WAL')
+    await client.execute('PRAGMA busy_timeout = 5000')
+  }
+  await client.execute('PRAGMA foreign_keys = ON')
+  const db = drizzle(client, { schema })
+  await migrate(db, { migrationsFolder: findMigrationsFolder() })
+  return { db, client }
+}
+
+function databaseConfig (): { url: string, authToken: string } {
+  // useRuntimeConfig is there inside Nitro; scripts and tests outside it read the environment.
+  try {
+    const rc = useRuntimeConfig()
+    return { url: rc.databaseUrl, authToken: rc.databaseAuthToken }
+  } catch {
+    return { url: process.env.NUXT_DATABASE_URL ?? 'file:./data/crosspoint.db', authToken: process.env.NUXT_DATABASE_AUTH_TOKEN ?? '' }
+  }
+}
+
+/** The database, migrated. */
+export async function useDb (): Promise<Db> {
+  if (!ready) {
+    const { url, authToken } = databaseConfig()
+    ready = openDatabase(url, authToken)
+    ready.catch(() => { ready = undefined })
+  }
+  return (await ready).db
+}
+
+export async function useDbClient (): Promise<Client> {
+  await useDb()
+  return (await ready!).client
+}

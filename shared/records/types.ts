@@ -1,0 +1,72 @@
+/**
+ * TypeScript view of schemas/rate-record.v1.json (canonical units). The JSON Schema is the
+ * source of truth; keep the two in step (a unit test validates typed fixtures against it).
+ */
+export type Linkage = 'covalent' | 'supramolecular' | 'bimolecular' | 'protein' | 'other'
+export type ProcessKind = 'charge-separation' | 'charge-recombination' | 'charge-shift' | 'hole-transfer' | 'other'
+export type InitialState = 'singlet' | 'triplet' | 'thermal'
+export type TechniqueMethod = 'transient-absorption' | 'tcspc' | 'upconversion' | 'streak-camera' | 'pulse-radiolysis' | 'microwave-conductivity' | 'steady-state-quenching' | 'other'
+
+export const LINKAGES: Linkage[] = ['covalent', 'supramolecular', 'bimolecular', 'protein', 'other']
+export const PROCESSES: ProcessKind[] = ['charge-separation', 'charge-recombination', 'charge-shift', 'hole-transfer', 'other']
+export const TECHNIQUES: TechniqueMethod[] = ['transient-absorption', 'tcspc', 'upconversion', 'streak-camera', 'pulse-radiolysis', 'microwave-conductivity', 'steady-state-quenching', 'other']
+
+export interface Species { name: string, class?: string, smiles?: string, inchiKey?: string }
+export interface Original { value: number, unit: string }
+
+export interface RateRecordV1 {
+  system: { donor: Species, acceptor: Species, bridge?: Species, linkage: Linkage }
+  process: ProcessKind
+  initialState: InitialState
+  medium: { solvent?: string, permittivity?: number, refractiveIndex?: number, matrix?: string }
+  temperatureK: number
+  geometry?: { centerToCenterAngstrom?: number, edgeToEdgeAngstrom?: number }
+  rate: {
+    value: number, uncertainty?: number, kind: 'unimolecular' | 'bimolecular'
+    method?: 'direct' | 'lifetimes' | 'stern-volmer', lifetimeS?: number, referenceLifetimeS?: number, original?: Original
+  }
+  drivingForce?: {
+    value: number, uncertainty?: number, method: 'measured' | 'redox-potentials' | 'computed' | 'estimated'
+    redox?: {
+      donorOxidationPotential: number, donorReference: string, acceptorReductionPotential: number, acceptorReference: string
+      referenceOffset?: number, excitationEnergy: number, referencePermittivity?: number, donorRadius?: number, acceptorRadius?: number
+    }
+    original?: Original
+  }
+  reportedParameters?: { lambdaSolvent?: number, lambdaInternal?: number, coupling?: number, vibrationEnergy?: number }
+  technique: { method: TechniqueMethod, excitationWavelengthNm?: number, timeResolutionS?: number }
+  notes?: string
+  location?: string
+}
+
+export interface Creator { name: string, orcid?: string, affiliation?: string, rorId?: string }
+export interface DatasetMetadataV1 {
+  title: string
+  description?: string
+  creators: Creator[]
+  keywords?: string[]
+  license: string
+  relatedIdentifiers?: { identifier: string, identifierType: string, relationType: string }[]
+  funding?: { funderName: string, awardNumber?: string }[]
+  embargoUntil?: string
+  publicationYear?: number
+}
+
+/** The searchable columns stored beside each record's JSON. */
+export function recordColumns (r: RateRecordV1) {
+  return {
+    donorName: r.system.donor.name,
+    acceptorName: r.system.acceptor.name,
+    bridgeName: r.system.bridge?.name ?? null,
+    linkage: r.system.linkage,
+    process: r.process,
+    solvent: r.medium.solvent ?? r.medium.matrix ?? null,
+    technique: r.technique.method,
+    temperatureK: r.temperatureK,
+    distanceAngstrom: r.geometry?.centerToCenterAngstrom ?? r.geometry?.edgeToEdgeAngstrom ?? null,
+    rate: r.rate.value,
+    rateKind: r.rate.kind,
+    log10Rate: Math.log10(r.rate.value),
+    deltaG: r.drivingForce?.value ?? null
+  }
+}
