@@ -3,18 +3,17 @@
  * row is found by a natural key (e-mail, lab slug, solvent name, dataset seed key) and skipped
  * when it is already there, so running it twice leaves the same counts.
  */
-import { and, eq, sql } from 'drizzle-orm'
+import { eq } from 'drizzle-orm'
 import { hash } from '@node-rs/argon2'
 import { openDatabase, schema } from '../server/utils/db'
 import { recordColumns } from '../shared/records/types'
 import { DATASETS, DEMO_PASSWORD, LABS, PEOPLE, SOLVENTS, demoMetadata, demoRecords } from './lib/scenario'
 
-const url = process.env.NUXT_DATABASE_URL ?? 'file:./data/crosspoint.db'
 const prefix = process.env.NUXT_REGISTRAR_PREFIX ?? '10.99999'
 const DAY = 86400e3
 const BASE_TIME = Date.parse('2026-06-01T09:00:00Z')
 
-export async function seed (): Promise<Record<string, number>> {
+export async function seed (url = process.env.NUXT_DATABASE_URL ?? 'file:./data/crosspoint.db'): Promise<Record<string, number>> {
   const { db, client } = await openDatabase(url, process.env.NUXT_DATABASE_AUTH_TOKEN)
   try {
     for (const s of SOLVENTS) {
@@ -86,19 +85,19 @@ export async function seed (): Promise<Record<string, number>> {
         }
       })
     }
-    const count = async (t: Parameters<typeof db.select>[0] extends never ? never : any) => (await db.select({ n: sql<number>`count(*)` }).from(t))[0]!.n
-    return {
-      users: await count(schema.users), labs: await count(schema.labs), datasets: await count(schema.datasets),
-      versions: await count(schema.datasetVersions), records: await count(schema.rateRecords), solvents: await count(schema.solvents)
+    const counts: Record<string, number> = {}
+    for (const t of ['user', 'lab', 'lab_membership', 'dataset', 'dataset_version', 'rate_record', 'review', 'record_comment', 'solvent']) {
+      counts[t] = (await client.execute(`select count(*) as n from "${t}"`)).rows[0]!.n as number
     }
+    return counts
   } finally {
     client.close()
   }
 }
 
 if (import.meta.url === `file://${process.argv[1]}`) {
-  seed().then((counts) => {
+  const url = process.env.NUXT_DATABASE_URL ?? 'file:./data/crosspoint.db'
+  seed(url).then((counts) => {
     process.stdout.write(`Seeded the demo scenario into ${url}: ${JSON.stringify(counts)}\n`)
   }).catch((e) => { process.stderr.write(`Seeding failed: ${(e as Error).message}\n`); process.exit(1) })
 }
-void and

@@ -7,17 +7,17 @@ import { rethrowPhysics } from './errors'
 
 export const MAX_CURVE_POINTS = 100_000
 
-const energy = { type: 'number', description: 'eV' }
+const energy = { type: 'number', exclusiveMinimum: 0, description: 'eV, > 0' }
 export const curveBodySchema = {
   type: 'object',
   required: ['model', 'temperatureK', 'coupling', 'drivingForces'],
   additionalProperties: false,
   properties: {
     model: { enum: ['classical', 'semiclassical'] },
-    temperatureK: { type: 'number', description: 'K' },
+    temperatureK: { type: 'number', exclusiveMinimum: 0, description: 'K' },
     lambdaTotal: energy,
     lambdaSolvent: energy,
-    lambdaInternal: energy,
+    lambdaInternal: { type: 'number', minimum: 0, description: 'eV, ≥ 0' },
     vibrationEnergy: energy,
     coupling: energy,
     drivingForces: { type: 'array', items: { type: 'number' }, minItems: 1, maxItems: MAX_CURVE_POINTS },
@@ -75,7 +75,7 @@ export const fitBodySchema = {
   additionalProperties: false,
   properties: {
     model: { enum: ['classical', 'semiclassical'] },
-    temperatureK: { type: 'number' },
+    temperatureK: { type: 'number', exclusiveMinimum: 0 },
     points: {
       type: 'array', minItems: 1, maxItems: MAX_FIT_POINTS,
       items: {

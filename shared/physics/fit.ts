@@ -239,8 +239,9 @@ export function fitRates (req: FitRequest): FitResult {
       parameters[name] = { value, stderr: se, fixed: false }
     }
     if (se === null && dof > 0) warnings.push(`The data cannot constrain ${name}: fix it or add points that span more driving force.`)
-    else if (se !== null && name !== 'coupling' && se > Math.abs(value)) warnings.push(`${name} is poorly determined: its standard error exceeds its value.`)
-    else if (se !== null && name === 'coupling' && se > 1) warnings.push('The coupling is poorly determined: its standard error spans more than a factor of ten.')
+    // common practice: call a parameter poorly determined past 50 % relative error (a factor of 2 for V)
+    else if (se !== null && name !== 'coupling' && se > 0.5 * Math.abs(value)) warnings.push(`${name} is poorly determined: its standard error is more than half its value.`)
+    else if (se !== null && name === 'coupling' && se > Math.log10(2)) warnings.push('The coupling is poorly determined: its standard error spans more than a factor of two.')
     const raw = vec[fi]!
     if (Math.abs(raw - BOUNDS[name][0]) < 1e-9 || Math.abs(raw - BOUNDS[name][1]) < 1e-9) {
       warnings.push(`${name} ended at the edge of its allowed range; the fit may not have found a true minimum.`)

@@ -201,7 +201,8 @@ function vibronicRun (dg: ArrayLike<number>, out: Float64Array, st: VibronicStat
     // Downward: T_{j−1} = T_j · d_j with d_j = 1/r_{j−1} = q · j/(j+1) / r_j, and d_{j−1} = d_j · q · (j−1)/j.
     if (jStar > 0) {
       t = 1
-      let d = q * us[jStar - 1]! / rUp0
+      // d_{j*} from r_{j*} unless r_{j*} underflowed (then directly: one more exp, only in that corner).
+      let d = rUp0 > 1e-290 ? q * us[jStar - 1]! / rUp0 : Math.exp(-(base - l1[jStar - 1]! + c3 * (jStar - 1)))
       j = jStar
       for (;;) {
         t *= d

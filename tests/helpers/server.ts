@@ -1,0 +1,93 @@
+/**
+ * Starts the built server (.output) on a free loopback port with a throw-away database file and
+ * data folder, optionally seeded with the demo scenario; stops it and removes the files after.
+ */
+import { spawn, type ChildProcess } from 'node:child_process'
+import { mkdtempSync, rmSync } from 'node:fs'
+import { createServer } from 'node:net'
+import { tmpdir } from 'node:os'
+import { join, resolve } from 'node:path'
+
+export const ROOT = resolve(__dirname, '../..')
+export const SERVER_ENTRY = join(ROOT, '.output/server/index.mjs')
+
+export async function freePort (): Promise<number> {
+  return new Promise((ok, fail) => {
+    const s = createServer()
+    s.listen(0, '127.0.0.1', () => {
+      const port = (s.address() as { port: number }).port
+      s.close(() => ok(port))
+    })
+    s.on('error', fail)
+  })
+}
+
+export interface TestServer {
+  url: string
+  dir: string
+  dbUrl: string
+  env: Record<string, string>
+  proc: ChildProcess
+  output: () => string
+  stop: () => Promise<void>
+}
+
+export async function startServer (opts: { seed?: boolean, env?: Record<string, string> } = {}): Promise<TestServer> {
+  const dir = mkdtempSync(join(tmpdir(), 'crosspoint-test-'))
+  const dbUrl = `file:${join(dir, 'test.db')}`
+  if (opts.seed) {
+    const { seed } = await import('../../scripts/seed')
+    await seed(dbUrl)
+  }
+  const port = await freePort()
+  const url = `http://127.0.0.1:${port}`
+  const env: Record<string, string> = {
+    ...process.env as Record<string, string>,
+    NODE_ENV: 'production',
+    HOST: '127.0.0.1',
+    PORT: String(port),
+    NUXT_DATABASE_URL: dbUrl,
+    NUXT_DATA_DIR: join(dir, 'files'),
+    AUTH_ORIGIN: `${url}/api/auth`,
+    NUXT_PUBLIC_BASE_URL: url,
+    NUXT_AUTH_SECRET: 'test-secret-' + port,
+    ...opts.env
+  }
+  let out = ''
+  // Start from another folder on purpose: the built server must not depend on its working directory.
+  const proc = spawn(process.execPath, [SERVER_ENTRY], { cwd: dir, env, stdio: ['ignore', 'pipe', 'pipe'] })
+  proc.stdout!.on('data', (d) => { out += d })
+  proc.stderr!.on('data', (d) => { out += d })
+  const deadline = Date.now() + 30_000
+  for (;;) {
+    if (proc.exitCode !== null) throw new Error(`server exited with ${proc.exitCode}:\n${out}`)
+    try {
+      const r = await fetch(`${url}/api/v1/health`)
+      if (r.ok) break
+    } catch { /* not up yet */ }
+    if (Date.now() > deadline) throw new Error(`server did not start:\n${out}`)
+    await new Promise(r => setTimeout(r, 100))
+  }
+  return {
+    url, dir, dbUrl, env, proc, output: () => out,
+    stop: async () => {
+      if (proc.exitCode === null) {
+        proc.kill('SIGTERM')
+        await new Promise(r => proc.once('exit', r))
+      }
+      rmSync(dir, { recursive: true, force: true })
+    }
+  }
+}
+
+/** JSON request helper: returns status and parsed body. */
+export async function api (base: string, path: string, init: RequestInit & { json?: unknown } = {}) {
+  const headers = new Headers(init.headers)
+  let body = init.body
+  if (init.json !== undefined) { headers.set('content-type', 'application/json'); body = JSON.stringify(init.json) }
+  const res = await fetch(base + path, { ...init, headers, body, redirect: 'manual' })
+  const text = await res.text()
+  let data: any = text
+  try { data = JSON.parse(text) } catch { /* not JSON */ }
+  return { status: res.status, headers: res.headers, data }
+}

@@ -1,0 +1,22 @@
+import { fileURLToPath } from 'node:url'
+import { defineConfig } from 'vitest/config'
+
+const root = fileURLToPath(new URL('.', import.meta.url))
+const alias = { '#shared': `${root}shared`, '~': `${root}app` }
+
+export default defineConfig({
+  resolve: { alias },
+  test: {
+    projects: [
+      { resolve: { alias }, test: { name: 'unit', environment: 'node', include: ['tests/unit/**/*.test.ts'] } },
+      {
+        resolve: { alias },
+        test: { name: 'api', environment: 'node', include: ['tests/api/**/*.test.ts'], testTimeout: 30_000, hookTimeout: 60_000, fileParallelism: true, maxWorkers: 2 }
+      },
+      {
+        resolve: { alias },
+        test: { name: 'browser', environment: 'node', include: ['tests/browser/**/*.test.ts'], testTimeout: 60_000, hookTimeout: 90_000, fileParallelism: false }
+      }
+    ]
+  }
+})
