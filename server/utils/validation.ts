@@ -17,7 +17,7 @@ const addFormats = ((addFormatsModule as unknown as { default?: typeof addFormat
 let ajvInstance: InstanceType<typeof Ajv2020> | undefined
 export function useAjv () {
   if (!ajvInstance) {
-    ajvInstance = new Ajv2020({ allErrors: true, strict: true, strictRequired: false, coerceTypes: false })
+    ajvInstance = new Ajv2020({ allErrors: true, strict: true, strictRequired: false, allowUnionTypes: true, coerceTypes: false })
     addFormats(ajvInstance)
     ajvInstance.addSchema(rateRecordSchema as object)
     ajvInstance.addSchema(datasetSchema as object)

@@ -91,3 +91,26 @@ export async function api (base: string, path: string, init: RequestInit & { jso
   try { data = JSON.parse(text) } catch { /* not JSON */ }
   return { status: res.status, headers: res.headers, data }
 }
+
+/** Signs in through the auth handler's credentials flow like a browser would; returns the Cookie header. */
+export async function signIn (base: string, email: string, password = 'crosspoint-demo'): Promise<string> {
+  const jar = new Map<string, string>()
+  const keep = (res: Response) => {
+    for (const c of res.headers.getSetCookie()) {
+      const [pair] = c.split(';'); const i = pair!.indexOf('=')
+      jar.set(pair!.slice(0, i), pair!.slice(i + 1))
+    }
+  }
+  const cookie = () => [...jar].map(([k, v]) => `${k}=${v}`).join('; ')
+  const csrfRes = await fetch(`${base}/api/auth/csrf`)
+  keep(csrfRes)
+  const { csrfToken } = await csrfRes.json() as { csrfToken: string }
+  const res = await fetch(`${base}/api/auth/callback/credentials`, {
+    method: 'POST', redirect: 'manual',
+    headers: { 'content-type': 'application/x-www-form-urlencoded', cookie: cookie() },
+    body: new URLSearchParams({ csrfToken, email, password, callbackUrl: base, json: 'true' })
+  })
+  keep(res)
+  if (![...jar.keys()].some(k => k.includes('session-token'))) throw new Error(`sign-in failed for ${email}: ${res.status}`)
+  return cookie()
+}

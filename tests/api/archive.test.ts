@@ -1,0 +1,129 @@
+import { readdirSync, statSync } from 'node:fs'
+import { join, relative } from 'node:path'
+import { afterAll, beforeAll, describe, expect, it } from 'vitest'
+import { api, ROOT, signIn, startServer, type TestServer } from '../helpers/server'
+
+let s: TestServer
+beforeAll(async () => { s = await startServer({ seed: true }) })
+afterAll(async () => { await s?.stop() })
+
+async function datasetIdByState (state: string, cookie?: string) {
+  const r = await api(s.url, `/api/v1/datasets?state=${state}&pageSize=100`, { headers: cookie ? { cookie } : {} })
+  return r.data.items as { id: number, labName: string, state: string }[]
+}
+
+describe('service routes', () => {
+  it('health reports the database and the record count', async () => {
+    const r = await api(s.url, '/api/v1/health')
+    expect(r.data).toMatchObject({ status: 'ok', database: 'ok' })
+    expect(r.data.records).toBeGreaterThan(2000)
+    expect(r.data.version).toMatch(/^\d+\.\d+\.\d+/)
+  })
+  it('the OpenAPI document lists every /api/v1 route file', async () => {
+    const r = await api(s.url, '/api/v1/openapi.json')
+    expect(r.status).toBe(200)
+    expect(r.data.openapi).toMatch(/^3\./)
+    const dir = join(ROOT, 'server/api/v1')
+    const files: string[] = []
+    const walk = (d: string) => { for (const f of readdirSync(d)) { const p = join(d, f); statSync(p).isDirectory() ? walk(p) : files.push(p) } }
+    walk(dir)
+    expect(files.length).toBeGreaterThan(8)
+    for (const f of files) {
+      const m = relative(dir, f).match(/^(.*?)\.(get|post|put|patch|delete)\.ts$/)!
+      const path = ('/api/v1/' + m[1]!.replace(/\/?index$/, '').replace(/\[(\w+)\]/g, '{$1}')).replace(/\/$/, '')
+      expect(Object.keys(r.data.paths), path).toContain(path)
+      expect(r.data.paths[path][m[2]!], `${m[2]} ${path}`).toBeDefined()
+    }
+  })
+  it('serves the schemas with $id equal to their public URL', async () => {
+    for (const name of ['rate-record.v1.json', 'dataset.v1.json']) {
+      const r = await api(s.url, `/schemas/${name}`)
+      expect(r.status).toBe(200)
+      expect(r.data.$id).toBe(`${s.url}/schemas/${name}`)
+      expect(r.headers.get('content-type')).toContain('application/schema+json')
+    }
+    expect((await api(s.url, '/schemas/nope.json')).status).toBe(404)
+  })
+})
+
+describe('records and datasets for a visitor', () => {
+  it('lists published records with facets; filters narrow the total', async () => {
+    const all = await api(s.url, '/api/v1/records?pageSize=5')
+    expect(all.status).toBe(200)
+    expect(all.data.items).toHaveLength(5)
+    expect(Object.keys(all.data.facets)).toEqual(expect.arrayContaining(['process', 'solvent', 'technique', 'linkage', 'lab']))
+    const facetSum = Object.values(all.data.facets.linkage as Record<string, number>).reduce((a, b) => a + b, 0)
+    expect(facetSum).toBe(all.data.total)
+    const narrow = await api(s.url, '/api/v1/records?solvent=acetonitrile&deltaGMin=-1&deltaGMax=-0.2&pageSize=500')
+    expect(narrow.data.total).toBeGreaterThan(0)
+    expect(narrow.data.total).toBeLessThan(all.data.total)
+    for (const r of narrow.data.items) {
+      expect(r.solvent).toBe('acetonitrile')
+      expect(r.deltaG).toBeGreaterThanOrEqual(-1)
+      expect(r.deltaG).toBeLessThanOrEqual(-0.2)
+    }
+    const q = await api(s.url, '/api/v1/records?q=porphyrin&pageSize=1')
+    expect(q.data.total).toBeGreaterThan(0) // matches dataset titles
+    expect(q.data.items[0].datasetTitle.toLowerCase()).toContain('porphyrin')
+    const zn = await api(s.url, '/api/v1/records?q=znp&pageSize=3')
+    expect(zn.data.total).toBeGreaterThan(0)
+  })
+  it('422 for a range that is not a number, naming the parameter', async () => {
+    const r = await api(s.url, '/api/v1/records?deltaGMin=abc&pageSize=0')
+    expect(r.status).toBe(422)
+    expect(r.data.data.issues.map((i: { path: string }) => i.path)).toEqual(expect.arrayContaining(['/deltaGMin', '/pageSize']))
+  })
+  it('shows only published and withdrawn datasets; drafts answer 404', async () => {
+    const visible = await datasetIdByState('published')
+    expect(visible.length).toBeGreaterThan(3)
+    expect(await datasetIdByState('draft')).toHaveLength(0)
+    const all = await api(s.url, '/api/v1/datasets?pageSize=100')
+    expect(all.data.items.every((d: { state: string }) => ['published', 'withdrawn'].includes(d.state))).toBe(true)
+    for (let id = 1; id <= 12; id++) {
+      const r = await api(s.url, `/api/v1/datasets/${id}`)
+      if (r.status === 200) expect(['published', 'withdrawn']).toContain(r.data.version.state)
+      else expect(r.status).toBe(404)
+    }
+  })
+  it('a withdrawn dataset keeps its landing page and identifier but offers no records', async () => {
+    const [w] = await datasetIdByState('withdrawn')
+    const r = await api(s.url, `/api/v1/datasets/${w!.id}`)
+    expect(r.status).toBe(200)
+    expect(r.data.version.doi).toMatch(/^10\.\d+\//)
+    expect(r.data.records).toEqual([])
+    expect(r.data.recordsHidden).toBe('withdrawn')
+  })
+  it('a record of a draft is 404 for a visitor', async () => {
+    const cookie = await signIn(s.url, 'imre.faulkwood@brightwater.example')
+    const [draft] = await datasetIdByState('draft', cookie)
+    const own = await api(s.url, `/api/v1/datasets/${draft!.id}`, { headers: { cookie } })
+    expect(own.status).toBe(200)
+    const recId = own.data.records[0].id
+    expect((await api(s.url, `/api/v1/records/${recId}`, { headers: { cookie } })).status).toBe(200)
+    expect((await api(s.url, `/api/v1/records/${recId}`)).status).toBe(404)
+    expect((await api(s.url, `/api/v1/datasets/${draft!.id}`)).status).toBe(404)
+  })
+})
+
+describe('who sees what when signed in', () => {
+  it('a contributor sees their own lab\'s drafts but not another lab\'s', async () => {
+    const imre = await signIn(s.url, 'imre.faulkwood@brightwater.example')
+    const sunniva = await signIn(s.url, 'sunniva.orrel@lindqvale.example')
+    const imreDrafts = await datasetIdByState('draft', imre)
+    const sunDrafts = await datasetIdByState('draft', sunniva)
+    expect(imreDrafts.every(d => d.labName === 'Faulkwood Ultrafast Lab')).toBe(true)
+    expect(sunDrafts.every(d => d.labName === 'Orrel Solar-Fuels Group')).toBe(true)
+    expect((await api(s.url, `/api/v1/datasets/${imreDrafts[0]!.id}`, { headers: { cookie: sunniva } })).status).toBe(404)
+  })
+  it('a curator sees submitted datasets of every lab; the admin sees all states', async () => {
+    const pia = await signIn(s.url, 'pia.veldhaus@brightwater.example')
+    const submitted = await datasetIdByState('submitted', pia)
+    expect(new Set(submitted.map(d => d.labName)).size).toBeGreaterThan(1)
+    const admin = await signIn(s.url, 'rowan.tessaly@crosspoint.example')
+    const all = await api(s.url, '/api/v1/datasets?pageSize=100', { headers: { cookie: admin } })
+    expect(new Set(all.data.items.map((d: { state: string }) => d.state))).toEqual(new Set(['draft', 'submitted', 'returned', 'published', 'withdrawn']))
+  })
+  it('a wrong password does not sign in', async () => {
+    await expect(signIn(s.url, 'imre.faulkwood@brightwater.example', 'wrong')).rejects.toThrow(/sign-in failed/)
+  })
+})
