@@ -8,14 +8,14 @@ export default defineConfig({
   resolve: { alias },
   test: {
     projects: [
-      { resolve: { alias }, test: { name: 'unit', environment: 'node', include: ['tests/unit/**/*.test.ts'] } },
+      { resolve: { alias }, test: { name: 'unit', environment: 'node', include: ['tests/unit/**/*.test.ts'], sequence: { groupOrder: 0 } } },
       {
         resolve: { alias },
-        test: { name: 'api', environment: 'node', include: ['tests/api/**/*.test.ts'], testTimeout: 30_000, hookTimeout: 60_000, fileParallelism: true, maxWorkers: 2 }
+        test: { name: 'api', environment: 'node', include: ['tests/api/**/*.test.ts'], testTimeout: 30_000, hookTimeout: 60_000, fileParallelism: true, maxWorkers: 2, sequence: { groupOrder: 1 } }
       },
       {
         resolve: { alias },
-        test: { name: 'browser', environment: 'node', include: ['tests/browser/**/*.test.ts'], testTimeout: 60_000, hookTimeout: 90_000, fileParallelism: false }
+        test: { name: 'browser', environment: 'node', include: ['tests/browser/**/*.test.ts'], testTimeout: 60_000, hookTimeout: 90_000, fileParallelism: false, sequence: { groupOrder: 2 } }
       }
     ]
   }

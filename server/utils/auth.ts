@@ -4,7 +4,8 @@
  */
 import { createHash } from 'node:crypto'
 import { and, eq, isNull } from 'drizzle-orm'
-import { verify } from '@node-rs/argon2'
+import { hash, verify } from '@node-rs/argon2'
+import { recordFailure, slowAfterFailures } from './rate-limit'
 import { getHeader, type H3Event } from 'h3'
 import { getServerSession } from '#auth'
 import { useDb, schema } from './db'
@@ -23,13 +24,34 @@ export function hashToken (token: string): string {
   return createHash('sha256').update(token).digest('hex')
 }
 
-/** Checks a password against the stored argon2id hash; null when either is wrong. */
+/**
+ * Checks a password against the stored argon2id hash; null when either is wrong or the address is
+ * not verified yet. Repeated failures for one account are answered more and more slowly.
+ */
 export async function verifyPassword (email: string, password: string) {
+  const key = email.trim().toLowerCase()
+  await slowAfterFailures(key)
   const db = await useDb()
-  const [u] = await db.select().from(schema.users).where(eq(schema.users.email, email.trim().toLowerCase()))
-  if (!u?.passwordHash) return null
-  const ok = await verify(u.passwordHash, password).catch(() => false)
-  return ok ? u : null
+  const [u] = await db.select().from(schema.users).where(eq(schema.users.email, key))
+  const ok = !!u?.passwordHash && !!u.emailVerified && await verify(u.passwordHash, password).catch(() => false)
+  recordFailure(key, ok)
+  return ok ? u! : null
+}
+
+/** Signs in with the token of an e-mailed link (one use, short-lived). */
+export async function signInWithLink (token: string) {
+  const { consumeOneTimeToken } = await import('./one-time-tokens')
+  const t = await consumeOneTimeToken(token, 'login')
+  if (!t) return null
+  const db = await useDb()
+  const [u] = await db.select().from(schema.users).where(eq(schema.users.email, t.email))
+  if (u && !u.emailVerified) await db.update(schema.users).set({ emailVerified: new Date() }).where(eq(schema.users.id, u.id))
+  return u ?? null
+}
+
+/** argon2id with the library's defaults (m = 19 MiB, t = 2, p = 1). */
+export function hashPassword (password: string): Promise<string> {
+  return hash(password)
 }
 
 async function loadViewer (userId: string): Promise<Viewer | null> {
@@ -63,6 +85,17 @@ export async function getViewer (event: H3Event): Promise<Viewer | null> {
 export async function requireUser (event: H3Event): Promise<Viewer> {
   const v = await getViewer(event)
   if (!v) throw httpError(401, MESSAGES.signInRequired)
+  return v
+}
+
+/** The viewer must lead the lab (or be an admin). Another lab's id answers 404. */
+export async function requireLabLead (event: H3Event, labId: number): Promise<Viewer> {
+  const v = await requireUser(event)
+  if (v.role === 'admin') return v
+  const db = await useDb()
+  const [m] = await db.select().from(schema.labMemberships).where(and(eq(schema.labMemberships.labId, labId), eq(schema.labMemberships.userId, v.id)))
+  if (!m) throw httpError(404, MESSAGES.notFound)
+  if (!m.isLead) throw httpError(403, 'Only the lab\'s lead (or an admin) can do this')
   return v
 }
 

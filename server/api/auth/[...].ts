@@ -1,6 +1,6 @@
 import CredentialsProviderModule from 'next-auth/providers/credentials'
 import { NuxtAuthHandler } from '#auth'
-import { verifyPassword } from '../../utils/auth'
+import { signInWithLink, verifyPassword } from '../../utils/auth'
 
 // next-auth providers are CommonJS; under ESM the factory sits on `.default`.
 const CredentialsProvider = ((CredentialsProviderModule as unknown as { default?: typeof CredentialsProviderModule }).default ?? CredentialsProviderModule)
@@ -12,10 +12,13 @@ export default NuxtAuthHandler({
   providers: [
     CredentialsProvider({
       name: 'password',
-      credentials: { email: { label: 'E-mail', type: 'email' }, password: { label: 'Password', type: 'password' } },
+      credentials: { email: { label: 'E-mail', type: 'email' }, password: { label: 'Password', type: 'password' }, linkToken: { label: 'Link token', type: 'text' } },
+      /** Either a password, or the one-time token of an e-mailed sign-in link. */
       async authorize (credentials) {
-        if (!credentials?.email || !credentials.password) return null
-        const user = await verifyPassword(credentials.email, credentials.password)
+        const c = credentials as { email?: string, password?: string, linkToken?: string } | undefined
+        const user = c?.linkToken
+          ? await signInWithLink(c.linkToken)
+          : (c?.email && c.password ? await verifyPassword(c.email, c.password) : null)
         return user ? { id: user.id, name: user.name, email: user.email, role: user.role } as never : null
       }
     })

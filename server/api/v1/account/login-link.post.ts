@@ -1,0 +1,13 @@
+import { emailSchema, sendSignInLink } from '../../../utils/accounts'
+import { limitRate } from '../../../utils/rate-limit'
+import { readValidated } from '../../../utils/validation'
+
+defineRouteMeta({ openAPI: { tags: ['account'], summary: 'E-mail a one-time sign-in link (answers 202 whether or not the address is known)' } })
+
+export default defineEventHandler(async (event) => {
+  const { email } = await readValidated<{ email: string }>(event, { type: 'object', required: ['email'], additionalProperties: false, properties: { email: emailSchema } })
+  limitRate(event, `login-link|${email.toLowerCase()}`, 5, 900)
+  await sendSignInLink(email)
+  setResponseStatus(event, 202)
+  return { message: 'If the address has an account, a sign-in link is on its way.' }
+})

@@ -1,0 +1,16 @@
+import { passwordSchema, setPassword } from '../../../../utils/accounts'
+import { consumeOneTimeToken } from '../../../../utils/one-time-tokens'
+import { httpError } from '../../../../utils/errors'
+import { limitRate } from '../../../../utils/rate-limit'
+import { readValidated } from '../../../../utils/validation'
+
+defineRouteMeta({ openAPI: { tags: ['account'], summary: 'Set a new password with the token from the reset link' } })
+
+export default defineEventHandler(async (event) => {
+  limitRate(event, 'reset-confirm', 20, 900)
+  const b = await readValidated<{ token: string, password: string }>(event, { type: 'object', required: ['token', 'password'], additionalProperties: false, properties: { token: { type: 'string', minLength: 10, maxLength: 200 }, password: passwordSchema } })
+  const t = await consumeOneTimeToken(b.token, 'reset')
+  if (!t) throw httpError(410, 'This reset link is not valid any more; ask for a new one', [{ path: '/token', message: 'unknown, used or expired' }])
+  await setPassword(t.email, b.password)
+  return { email: t.email, message: 'Password changed; sign in with the new one.' }
+})

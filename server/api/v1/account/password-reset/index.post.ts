@@ -1,0 +1,13 @@
+import { emailSchema, sendPasswordReset } from '../../../../utils/accounts'
+import { limitRate } from '../../../../utils/rate-limit'
+import { readValidated } from '../../../../utils/validation'
+
+defineRouteMeta({ openAPI: { tags: ['account'], summary: 'E-mail a password-reset link (answers 202 whether or not the address is known)' } })
+
+export default defineEventHandler(async (event) => {
+  const { email } = await readValidated<{ email: string }>(event, { type: 'object', required: ['email'], additionalProperties: false, properties: { email: emailSchema } })
+  limitRate(event, `reset|${email.toLowerCase()}`, 5, 900)
+  await sendPasswordReset(email)
+  setResponseStatus(event, 202)
+  return { message: 'If the address has an account, a reset link is on its way.' }
+})

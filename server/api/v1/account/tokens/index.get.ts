@@ -1,0 +1,6 @@
+import { listApiTokens } from '../../../../utils/accounts'
+import { requireUser } from '../../../../utils/auth'
+
+defineRouteMeta({ openAPI: { tags: ['account'], summary: 'The caller\'s API tokens (never the tokens themselves)' } })
+
+export default defineEventHandler(async event => ({ items: await listApiTokens((await requireUser(event)).id) }))

@@ -1,0 +1,17 @@
+import { requireLabLead } from '../../../../utils/auth'
+import { inviteToLab } from '../../../../utils/labs'
+import { intParam } from '../../../../utils/params'
+import { limitRate } from '../../../../utils/rate-limit'
+import { readValidated } from '../../../../utils/validation'
+
+defineRouteMeta({ openAPI: { tags: ['labs'], summary: 'Invite someone to the lab by e-mail (lab lead or admin)' } })
+
+export default defineEventHandler(async (event) => {
+  const id = intParam(event, 'id')
+  const { email } = await readValidated<{ email: string }>(event, { type: 'object', required: ['email'], additionalProperties: false, properties: { email: { type: 'string', format: 'email', maxLength: 200 } } })
+  const v = await requireLabLead(event, id)
+  limitRate(event, `invite|${v.id}`, 30, 3600)
+  await inviteToLab(v, id, email)
+  setResponseStatus(event, 202)
+  return { invited: email.toLowerCase() }
+})

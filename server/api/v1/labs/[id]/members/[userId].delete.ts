@@ -1,0 +1,13 @@
+import { requireLabLead } from '../../../../../utils/auth'
+import { removeMember } from '../../../../../utils/labs'
+import { intParam } from '../../../../../utils/params'
+
+defineRouteMeta({ openAPI: { tags: ['labs'], summary: 'Remove a member from the lab (lab lead or admin)' } })
+
+export default defineEventHandler(async (event) => {
+  const id = intParam(event, 'id')
+  const userId = getRouterParam(event, 'userId') ?? ''
+  const v = await requireLabLead(event, id)
+  await removeMember(v, id, userId)
+  return { removed: userId }
+})

@@ -1,0 +1,19 @@
+import { requireRole } from '../../../utils/auth'
+import { audit } from '../../../utils/audit'
+import { useDb, schema } from '../../../utils/db'
+import { httpError } from '../../../utils/errors'
+import { readValidated } from '../../../utils/validation'
+import { solventFields } from '../../../utils/solvents'
+
+defineRouteMeta({ openAPI: { tags: ['reference'], summary: 'Add a solvent (curator or admin)' } })
+
+export default defineEventHandler(async (event) => {
+  const b = await readValidated<{ name: string, permittivity: number, refractiveIndex: number, source: string }>(event, { type: 'object', additionalProperties: false, required: ['name', 'permittivity', 'refractiveIndex', 'source'], properties: solventFields })
+  const v = await requireRole(event, 'curator', 'admin')
+  const db = await useDb()
+  const [row] = await db.insert(schema.solvents).values(b).onConflictDoNothing().returning()
+  if (!row) throw httpError(409, 'A solvent with this name exists', [{ path: '/name', message: 'is taken' }])
+  await audit(v.id, 'solvent.added', 'solvent', row.id, { name: b.name })
+  setResponseStatus(event, 201)
+  return row
+})

@@ -1,0 +1,29 @@
+/**
+ * One-time tokens for e-mail verification, sign-in links, password resets and lab invitations,
+ * kept (hashed) in the verificationToken table; consuming one deletes it.
+ */
+import { randomBytes } from 'node:crypto'
+import { and, eq, gt } from 'drizzle-orm'
+import { useDb, schema } from './db'
+import { hashToken } from './auth'
+
+export type TokenPurpose = 'verify' | 'login' | 'reset' | `invite:${number}`
+
+export async function createOneTimeToken (purpose: TokenPurpose, email: string, ttlMinutes: number): Promise<string> {
+  const raw = randomBytes(24).toString('base64url')
+  const db = await useDb()
+  await db.insert(schema.verificationTokens).values({ identifier: `${purpose}|${email}`, token: hashToken(raw), expires: new Date(Date.now() + ttlMinutes * 60e3) })
+  return raw
+}
+
+/** The e-mail the token was issued for (and its purpose), or null when unknown or expired. */
+export async function consumeOneTimeToken (raw: string, purposePrefix: string): Promise<{ email: string, purpose: string } | null> {
+  if (!raw || raw.length > 200) return null
+  const db = await useDb()
+  const [row] = await db.select().from(schema.verificationTokens)
+    .where(and(eq(schema.verificationTokens.token, hashToken(raw)), gt(schema.verificationTokens.expires, new Date())))
+  if (!row || !row.identifier.startsWith(purposePrefix)) return null
+  await db.delete(schema.verificationTokens).where(eq(schema.verificationTokens.token, row.token))
+  const i = row.identifier.indexOf('|')
+  return { purpose: row.identifier.slice(0, i), email: row.identifier.slice(i + 1) }
+}
