@@ -38,9 +38,10 @@ export async function inviteToLab (actor: Viewer, labId: number, email: string) 
 }
 
 export async function acceptInvitation (viewer: Viewer, token: string) {
-  const t = await consumeOneTimeToken(token, 'invite:')
+  const t = await consumeOneTimeToken(token, 'invite:', (inv) => {
+    if (inv.email !== viewer.email.toLowerCase()) throw httpError(403, `This invitation was sent to ${inv.email}; sign in with that address to accept it`)
+  })
   if (!t) throw httpError(410, 'This invitation is not valid any more; ask the lab lead for a new one', [{ path: '/token', message: 'unknown, used or expired' }])
-  if (t.email !== viewer.email.toLowerCase()) throw httpError(403, `This invitation was sent to ${t.email}; sign in with that address to accept it`)
   const labId = Number(t.purpose.split(':')[1])
   const db = await useDb()
   await db.insert(schema.labMemberships).values({ labId, userId: viewer.id }).onConflictDoNothing()

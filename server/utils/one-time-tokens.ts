@@ -17,13 +17,15 @@ export async function createOneTimeToken (purpose: TokenPurpose, email: string, 
 }
 
 /** The e-mail the token was issued for (and its purpose), or null when unknown or expired. */
-export async function consumeOneTimeToken (raw: string, purposePrefix: string): Promise<{ email: string, purpose: string } | null> {
+export async function consumeOneTimeToken (raw: string, purposePrefix: string, accept: (t: { email: string, purpose: string }) => void = () => {}): Promise<{ email: string, purpose: string } | null> {
   if (!raw || raw.length > 200) return null
   const db = await useDb()
   const [row] = await db.select().from(schema.verificationTokens)
     .where(and(eq(schema.verificationTokens.token, hashToken(raw)), gt(schema.verificationTokens.expires, new Date())))
   if (!row || !row.identifier.startsWith(purposePrefix)) return null
-  await db.delete(schema.verificationTokens).where(eq(schema.verificationTokens.token, row.token))
   const i = row.identifier.indexOf('|')
-  return { purpose: row.identifier.slice(0, i), email: row.identifier.slice(i + 1) }
+  const t = { purpose: row.identifier.slice(0, i), email: row.identifier.slice(i + 1) }
+  accept(t) // may throw: the token then stays usable for the right person
+  const gone = await db.delete(schema.verificationTokens).where(eq(schema.verificationTokens.token, row.token)).returning()
+  return gone.length ? t : null // a concurrent use of the same token gets nothing
 }

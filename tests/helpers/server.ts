@@ -114,3 +114,35 @@ export async function signIn (base: string, email: string, password = 'crosspoin
   if (![...jar.keys()].some(k => k.includes('session-token'))) throw new Error(`sign-in failed for ${email}: ${res.status}`)
   return cookie()
 }
+
+/** Signs in with the one-time token of an e-mailed link; returns the Cookie header. */
+export async function signInWithLinkToken (base: string, linkToken: string): Promise<string> {
+  const csrfRes = await fetch(`${base}/api/auth/csrf`)
+  const csrfCookie = csrfRes.headers.getSetCookie().map(c => c.split(';')[0]).join('; ')
+  const { csrfToken } = await csrfRes.json() as { csrfToken: string }
+  const res = await fetch(`${base}/api/auth/callback/credentials`, {
+    method: 'POST', redirect: 'manual',
+    headers: { 'content-type': 'application/x-www-form-urlencoded', cookie: csrfCookie },
+    body: new URLSearchParams({ csrfToken, linkToken, callbackUrl: base, json: 'true' })
+  })
+  const cookies = res.headers.getSetCookie().map(c => c.split(';')[0])
+  if (!cookies.some(c => c!.includes('session-token'))) throw new Error(`link sign-in failed: ${res.status}`)
+  return [csrfCookie, ...cookies].join('; ')
+}
+
+/** The newest mail to an address (read through the admin outbox), and the first link in it. */
+export async function lastMailTo (base: string, adminCookie: string, to: string) {
+  const r = await api(base, '/api/v1/admin/outbox', { headers: { cookie: adminCookie } })
+  const m = (r.data.items as { to: string, subject: string, text: string, status: string }[]).find(x => x.to === to)
+  if (!m) throw new Error(`no mail to ${to}`)
+  const link = m.text.match(/https?:\/\/\S+/)?.[0] ?? ''
+  return { ...m, link, token: link ? new URL(link).searchParams.get('token') ?? '' : '' }
+}
+
+export const DEMO = {
+  contributorA: 'imre.faulkwood@brightwater.example',
+  contributorB: 'sunniva.orrel@lindqvale.example',
+  contributorC: 'kasimir.delacombe@marrowfield.example',
+  curator: 'pia.veldhaus@brightwater.example',
+  admin: 'rowan.tessaly@crosspoint.example'
+}
