@@ -1,3 +1,4 @@
+import { copyModuleSyncEntries } from './scripts/lib/nitro-fixes'
 import { cpSync, existsSync } from 'node:fs'
 import { resolve } from 'node:path'
 
@@ -54,6 +55,7 @@ export default defineNuxtConfig({
         // Migrations travel with the built server so that it can migrate from any working directory.
         const from = resolve(nitro.options.rootDir, 'drizzle')
         if (existsSync(from)) cpSync(from, resolve(nitro.options.output.serverDir, 'drizzle'), { recursive: true })
+        copyModuleSyncEntries(resolve(nitro.options.rootDir, 'node_modules'), resolve(nitro.options.output.serverDir, 'node_modules'))
       }
     }
   },

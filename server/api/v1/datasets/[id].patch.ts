@@ -1,0 +1,13 @@
+import { requireEditableDraft } from '../../../utils/deposit/drafts'
+import { datasetMetaSchema, updateMetadata, type DatasetMetaInput } from '../../../utils/deposit/metadata'
+import { intParam } from '../../../utils/params'
+import { readValidated } from '../../../utils/validation'
+
+defineRouteMeta({ openAPI: { tags: ['deposit'], summary: 'Change a draft\'s citation metadata (DataCite-compatible; ORCID check digits and DOI syntax verified)' } })
+
+export default defineEventHandler(async (event) => {
+  const id = intParam(event, 'id')
+  const b = await readValidated<DatasetMetaInput>(event, { ...datasetMetaSchema, required: [], minProperties: 1 })
+  const { version, viewer } = await requireEditableDraft(event, id)
+  return updateMetadata(viewer, version, b)
+})

@@ -1,0 +1,18 @@
+import { checkRecords } from '../../../../../utils/deposit/check'
+import { ingestContext, recordValidator, requireEditableDraft, writeRecords } from '../../../../../utils/deposit/drafts'
+import { httpError } from '../../../../../utils/errors'
+import { intParam } from '../../../../../utils/params'
+import { readValidated } from '../../../../../utils/validation'
+
+defineRouteMeta({ openAPI: { tags: ['deposit'], summary: 'Add records in the open format (rate-record.v1) to a draft: all or none', requestBody: { content: { 'application/json': { schema: { type: 'object', properties: { records: { type: 'array' } } } } } } } })
+
+export default defineEventHandler(async (event) => {
+  const id = intParam(event, 'id')
+  const { records } = await readValidated<{ records: unknown[] }>(event, { type: 'object', required: ['records'], additionalProperties: false, properties: { records: { type: 'array', minItems: 1, maxItems: 10000 } } })
+  const { version } = await requireEditableDraft(event, id)
+  const res = checkRecords(records, recordValidator(), await ingestContext(), '/records')
+  if (res.issueCount) throw httpError(422, `${res.issueCount} problem(s) in the records; nothing was added`, res.issues)
+  const total = await writeRecords(version.id, res.records, 'append')
+  setResponseStatus(event, 201)
+  return { added: res.records.length, recordCount: total, warnings: res.warnings }
+})

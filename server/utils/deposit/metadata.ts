@@ -1,0 +1,89 @@
+/** Draft datasets: creation, citation metadata (dataset.v1) and submission for review. */
+import { eq, inArray } from 'drizzle-orm'
+import datasetSchema from '../../../schemas/dataset.v1.json'
+import { isValidDoi, isValidOrcid } from '../../../shared/identifiers'
+import { useDb, schema } from '../db'
+import { httpError, type Issue } from '../errors'
+import { audit } from '../audit'
+import { ajvIssues, compile } from '../validation'
+import { sendMail, publicUrl } from '../mail'
+import { checkRecords } from './check'
+import { ingestContext, recordValidator } from './drafts'
+import type { Viewer } from '../auth'
+import type { DatasetMetadataV1 } from '../../../shared/records/types'
+
+/** The dataset schema's own properties, so that the API and the schema can never disagree. */
+export const datasetMetaSchema = { ...(datasetSchema as { properties: Record<string, any> }), $id: undefined, $schema: undefined } as unknown as { type: 'object', properties: Record<string, any>, required: string[] }
+export type DatasetMetaInput = Partial<DatasetMetadataV1>
+type Version = typeof schema.datasetVersions.$inferSelect
+
+export async function createDraft (viewer: Viewer, labId: number, title: string, description: string) {
+  const db = await useDb()
+  const [u] = await db.select().from(schema.users).where(eq(schema.users.id, viewer.id))
+  const metadata: DatasetMetadataV1 = {
+    title, description,
+    creators: [{ name: u?.name ?? viewer.email, ...(u?.orcid ? { orcid: u.orcid } : {}), ...(u?.affiliation ? { affiliation: u.affiliation } : {}) }],
+    license: 'CC-BY-4.0', keywords: []
+  }
+  return db.transaction(async (tx) => {
+    const [d] = await tx.insert(schema.datasets).values({ labId, createdBy: viewer.id }).returning()
+    await tx.insert(schema.datasetVersions).values({ datasetId: d!.id, versionNumber: 1, state: 'draft', title, description, metadata: metadata as never, license: metadata.license })
+    await tx.insert(schema.auditEvents).values({ actorId: viewer.id, action: 'dataset.created', targetType: 'dataset', targetId: String(d!.id), detail: { labId } })
+    return { id: d!.id, versionNumber: 1, state: 'draft' }
+  })
+}
+
+/** Rules the schema cannot state: ORCID check characters, DOI syntax, a sensible embargo date. */
+export function metadataIssues (m: DatasetMetaInput): Issue[] {
+  const issues: Issue[] = []
+  m.creators?.forEach((c, i) => { if (c.orcid && !isValidOrcid(c.orcid)) issues.push({ path: `/creators/${i}/orcid`, message: 'is not a valid ORCID iD (ISO 7064 MOD 11-2 check character)' }) })
+  m.relatedIdentifiers?.forEach((r, i) => { if (r.identifierType === 'DOI' && !isValidDoi(r.identifier)) issues.push({ path: `/relatedIdentifiers/${i}/identifier`, message: 'is not a DOI (10.<registrant>/<suffix>)' }) })
+  if (m.embargoUntil) {
+    const today = new Date().toISOString().slice(0, 10)
+    const max = new Date(Date.now() + 3 * 365 * 86400e3).toISOString().slice(0, 10)
+    if (m.embargoUntil > max) issues.push({ path: '/embargoUntil', message: 'embargoes longer than three years are not accepted' })
+    if (m.embargoUntil < today) issues.push({ path: '/embargoUntil', message: 'is in the past' })
+  }
+  return issues
+}
+
+export async function updateMetadata (viewer: Viewer, version: Version, patch: DatasetMetaInput) {
+  const issues = metadataIssues(patch)
+  if (issues.length) throw httpError(422, 'The metadata has problems; nothing was changed', issues)
+  const merged = { ...(version.metadata as DatasetMetaInput), ...patch }
+  for (const k of Object.keys(merged) as (keyof DatasetMetaInput)[]) if (merged[k] === null) delete merged[k]
+  const db = await useDb()
+  await db.update(schema.datasetVersions).set({
+    metadata: merged as never, title: merged.title ?? version.title, description: merged.description ?? '',
+    license: merged.license ?? version.license, embargoUntil: merged.embargoUntil ?? null, updatedAt: new Date()
+  }).where(eq(schema.datasetVersions.id, version.id))
+  await audit(viewer.id, 'dataset.metadata-changed', 'dataset_version', version.id, { fields: Object.keys(patch) })
+  return { metadata: merged }
+}
+
+/** Everything that must hold before review: valid metadata and at least one record, every record valid. */
+export async function submissionProblems (version: Version): Promise<Issue[]> {
+  const validate = compile(datasetSchema as object)
+  const meta = version.metadata
+  const issues: Issue[] = validate(meta) ? [] : ajvIssues(validate.errors, '/metadata')
+  issues.push(...metadataIssues(meta as DatasetMetaInput).map(i => ({ ...i, path: '/metadata' + i.path })))
+  const db = await useDb()
+  const rows = await db.select({ data: schema.rateRecords.data, position: schema.rateRecords.position }).from(schema.rateRecords).where(eq(schema.rateRecords.versionId, version.id)).orderBy(schema.rateRecords.position)
+  if (!rows.length) issues.push({ path: '/records', message: 'A dataset needs at least one record' })
+  const res = checkRecords(rows.map(r => r.data), recordValidator(), await ingestContext(), '/records')
+  issues.push(...res.issues)
+  return issues
+}
+
+export async function submitDraft (viewer: Viewer, version: Version) {
+  const problems = await submissionProblems(version)
+  if (problems.length) throw httpError(422, `${problems.length} problem(s) stand in the way of review`, problems)
+  const db = await useDb()
+  await db.update(schema.datasetVersions).set({ state: 'submitted', submittedAt: new Date(), updatedAt: new Date() }).where(eq(schema.datasetVersions.id, version.id))
+  await audit(viewer.id, 'dataset.submitted', 'dataset_version', version.id, { from: version.state })
+  const curators = await db.select({ email: schema.users.email }).from(schema.users).where(inArray(schema.users.role, ['curator', 'admin']))
+  for (const c of curators) {
+    await sendMail(c.email, `Submitted for review: ${version.title}`, `${viewer.name ?? viewer.email} submitted "${version.title}" (${version.recordCount} records) for review.\n${publicUrl(`/datasets/${version.datasetId}`)}\n`)
+  }
+  return { state: 'submitted' }
+}
