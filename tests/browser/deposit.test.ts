@@ -1,0 +1,69 @@
+import { join } from 'node:path'
+import { afterAll, beforeAll, describe, expect, it } from 'vitest'
+import type { Browser } from 'playwright-core'
+import { api, DEMO, ROOT, signIn, startServer, type TestServer } from '../helpers/server'
+import { launch, newPage, shot, signInAs } from '../helpers/browser'
+
+let s: TestServer
+let browser: Browser
+beforeAll(async () => { [s, browser] = await Promise.all([startServer({ seed: true }), launch()]) })
+afterAll(async () => { await browser?.close(); await s?.stop() })
+
+describe('a contributor deposits a dataset', () => {
+  it('starts a draft, uploads a file in two steps, adds a record by hand with a derived rate, and submits', async () => {
+    const { page, errors } = await newPage(browser)
+    await signInAs(page, s.url, DEMO.contributorA)
+    await page.goto(`${s.url}/deposit`, { waitUntil: 'networkidle' })
+    await page.fill('#new-title', 'Browser deposit (demo)')
+    await page.click('[data-test=create-dataset]')
+    await page.waitForURL(/\/deposit\/\d+$/)
+    const id = Number(page.url().split('/').pop())
+
+    // a file with a problem: reported by row and column, nothing added
+    await page.setInputFiles('[data-test=upload-input]', join(ROOT, 'tests/fixtures/deposit/second-row-bad.csv'))
+    await page.waitForSelector('[data-test=upload-report]')
+    expect(await page.locator('[data-test=upload-report]').textContent()).toContain('initial_state')
+    expect(await page.locator('[data-test=commit-append]').count()).toBe(0)
+    await shot(page, 'deposit-upload-problems')
+
+    // a clean file: check, then add
+    await page.setInputFiles('[data-test=upload-input]', join(ROOT, 'tests/fixtures/deposit/good.csv'))
+    await page.waitForSelector('[data-test=commit-append]')
+    await page.click('[data-test=commit-append]')
+    await page.waitForFunction(() => document.body.textContent!.includes('Records (3)'))
+
+    // by hand: the rate comes from lifetimes and the form shows the formula
+    await page.fill('#f-donor_name', 'ZnP')
+    await page.fill('#f-acceptor_name', 'NDI')
+    await page.fill('#f-solvent', 'toluene')
+    await page.fill('#f-lifetime', '0.5')
+    await page.fill('#f-reference_lifetime', '5')
+    await page.fill('#f-delta_g', '-0.5')
+    const derived = await page.locator('[data-test=derived]').textContent()
+    expect(derived).toContain('k_ET = 1/τ − 1/τ_ref')
+    expect(derived).toContain('1.8000e+9') // 1/0.5 ns − 1/5 ns (SCIENCE.md check)
+    await shot(page, 'deposit-form')
+    await page.click('[data-test=add-record]')
+    await page.waitForFunction(() => document.body.textContent!.includes('Records (4)'))
+
+    await page.click('[data-test=submit-review]')
+    await page.waitForFunction(() => document.body.textContent!.includes('Submitted for review'))
+    await shot(page, 'deposit-submitted')
+    const a = await signIn(s.url, DEMO.contributorA)
+    const d = await api(s.url, `/api/v1/datasets/${id}/versions/1`, { headers: { cookie: a } })
+    expect(d.data.version.state).toBe('submitted')
+    expect(d.data.records).toHaveLength(4)
+    expect(d.data.records[3].data.rate.method).toBe('lifetimes')
+    expect(errors).toEqual([])
+    await page.close()
+  })
+  it('the format page is generated from the schema and links the templates', async () => {
+    const { page, errors } = await newPage(browser)
+    await page.goto(`${s.url}/format`, { waitUntil: 'networkidle' })
+    const text = await page.locator('main').textContent()
+    for (const s2 of ['/rate/value', 'Unit: s⁻¹', 'rate (s-1)', 'charge-separation']) expect(text).toContain(s2)
+    expect(await page.locator('a[href="/api/v1/templates/records.xlsx"]').count()).toBeGreaterThan(0)
+    expect(errors).toEqual([])
+    await page.close()
+  })
+})
