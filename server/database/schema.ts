@@ -163,6 +163,8 @@ export const reviews = sqliteTable('review', {
   curatorId: text('curator_id').notNull().references(() => users.id),
   decision: text('decision', { enum: ['accepted', 'returned'] }).notNull(),
   comment: text('comment').notNull().default(''),
+  /** At a return: each record's key and a hash of its data, so a resubmission can show what changed. */
+  snapshot: text('snapshot', { mode: 'json' }).$type<{ key: string, hash: string }[]>(),
   ...timestamps
 }, t => [index('review_version_idx').on(t.versionId)])
 

@@ -2,6 +2,32 @@
 import { defaultVersion, getDataset, isUnderEmbargo, versionRecords } from './archive'
 import { httpError, MESSAGES } from './errors'
 import type { Viewer } from './auth'
+import { desc, eq } from 'drizzle-orm'
+import { useDb, schema } from './db'
+import { jsonLd, type CitableVersion } from './citation'
+import { publicUrl } from './mail'
+import type { DatasetMetadataV1 } from '../../shared/records/types'
+
+/** A published (or withdrawn) version in the shape the citation formats take. */
+export async function citableVersion (viewer: Viewer | null, id: number, versionNumber?: number): Promise<CitableVersion> {
+  const { dataset, lab, versions } = await getDataset(viewer, id)
+  const citable = versions.filter(v => v.doi && (v.state === 'published' || v.state === 'withdrawn'))
+  const v = versionNumber === undefined ? citable[citable.length - 1] : citable.find(x => x.versionNumber === versionNumber)
+  if (!v) throw httpError(404, 'No published version to cite')
+  return {
+    datasetId: dataset.id, versionNumber: v.versionNumber, title: v.title, description: v.description, metadata: v.metadata as unknown as DatasetMetadataV1,
+    license: v.license, doi: v.doi, conceptDoi: dataset.conceptDoi, publishedAt: v.publishedAt, labName: lab.name, landingUrl: publicUrl(`/datasets/${dataset.id}?version=${v.versionNumber}`)
+  }
+}
+
+/** The newest review's comments, for the lab that must answer them. */
+async function reviewNotes (versionId: number) {
+  const db = await useDb()
+  const [rev] = await db.select().from(schema.reviews).where(eq(schema.reviews.versionId, versionId)).orderBy(desc(schema.reviews.id)).limit(1)
+  if (!rev) return null
+  const comments = await db.select({ recordId: schema.recordComments.recordId, body: schema.recordComments.body }).from(schema.recordComments).where(eq(schema.recordComments.reviewId, rev.id))
+  return { decision: rev.decision, comment: rev.comment, at: rev.createdAt, comments }
+}
 
 export async function datasetView (viewer: Viewer | null, id: number, versionNumber?: number) {
   const { dataset, lab, versions } = await getDataset(viewer, id)
@@ -15,7 +41,9 @@ export async function datasetView (viewer: Viewer | null, id: number, versionNum
     conceptDoi: dataset.conceptDoi,
     isDemo: dataset.isDemo,
     lab: { id: lab.id, name: lab.name, institution: lab.institution },
-    canEdit: isMember && ['draft', 'returned'].includes(version.state),
+    canEdit: isMember && ['draft', 'returned'].includes(version.state) && version.versionNumber === Math.max(...versions.map(v => v.versionNumber)),
+    canStartVersion: isMember && versions[versions.length - 1]!.state === 'published',
+    canSeeAudit: !!viewer && (isMember || viewer.role !== 'contributor'),
     version: {
       versionNumber: version.versionNumber, state: version.state, title: version.title, description: version.description,
       metadata: version.metadata, license: version.license, doi: version.doi, embargoUntil: version.embargoUntil,
@@ -24,6 +52,8 @@ export async function datasetView (viewer: Viewer | null, id: number, versionNum
     },
     versions: versions.map(v => ({ versionNumber: v.versionNumber, state: v.state, doi: v.doi, publishedAt: v.publishedAt, recordCount: v.recordCount })),
     records: hideRecords ? [] : await versionRecords(version.id),
+    review: isMember ? await reviewNotes(version.id) : null,
+    jsonLd: version.doi && (version.state === 'published') ? jsonLd({ datasetId: dataset.id, versionNumber: version.versionNumber, title: version.title, description: version.description, metadata: version.metadata as unknown as DatasetMetadataV1, license: version.license, doi: version.doi, conceptDoi: dataset.conceptDoi, publishedAt: version.publishedAt, labName: lab.name, landingUrl: publicUrl(`/datasets/${dataset.id}?version=${version.versionNumber}`) }) : null,
     recordsHidden: hideRecords ? (version.state === 'withdrawn' ? 'withdrawn' : 'embargo') : null
   }
 }
