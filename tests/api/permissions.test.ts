@@ -73,7 +73,25 @@ const CASES: Case[] = [
   { name: 'list users', method: 'GET', path: () => '/api/v1/admin/users', expect: adminOnly() },
   { name: 'change a role', method: 'PATCH', path: () => '/api/v1/admin/users/nobody', body: () => ({ role: 'curator' }), expect: { ...adminOnly(), admin: 404 } },
   { name: 'mail outbox', method: 'GET', path: () => '/api/v1/admin/outbox', expect: adminOnly() },
-  { name: 'audit trail', method: 'GET', path: () => '/api/v1/admin/audit', expect: adminOnly() }
+  { name: 'audit trail', method: 'GET', path: () => '/api/v1/admin/audit', expect: adminOnly() },
+  { name: 'local registrar', method: 'GET', path: () => '/api/v1/admin/registrar', expect: adminOnly() },
+  { name: 'templates', method: 'GET', path: () => '/api/v1/templates/records.csv', expect: all(200) },
+  { name: 'cite a published dataset', method: 'GET', path: () => `/api/v1/datasets/${ids.publishedA}/citation?format=bibtex`, expect: all(200) },
+  { name: 'audit trail of a draft of lab A', method: 'GET', path: () => `/api/v1/datasets/${ids.draftA}/audit`,
+    expect: { visitor: 401, contributorA: 200, contributorB: 404, curatorOfA: 200, curatorElsewhere: 200, admin: 200, tokenOfA: 200 } },
+  { name: 'create a draft for lab A', method: 'POST', path: () => '/api/v1/datasets', body: () => ({ labId: ids.labA, title: 'Matrix draft' }),
+    expect: { visitor: 401, contributorA: 201, contributorB: 403, curatorOfA: 201, curatorElsewhere: 403, admin: 403, tokenOfA: 201 } },
+  { name: 'edit the metadata of lab A\'s draft', method: 'PATCH', path: () => `/api/v1/datasets/${ids.draftA}`, body: () => ({ keywords: ['matrix'] }),
+    expect: { visitor: 401, contributorA: 200, contributorB: 404, curatorOfA: 200, curatorElsewhere: 404, admin: 404, tokenOfA: 200 } },
+  { name: 'upload into lab A\'s draft (no file: 422 once past the guard)', method: 'POST', path: () => `/api/v1/datasets/${ids.draftA}/uploads/check`, body: () => ({}),
+    expect: { visitor: 401, contributorA: 422, contributorB: 404, curatorOfA: 422, curatorElsewhere: 404, admin: 404, tokenOfA: 422 } },
+  { name: 'review queue', method: 'GET', path: () => '/api/v1/review/queue', expect: { ...all(403), visitor: 401, curatorOfA: 200, curatorElsewhere: 200, admin: 200 } },
+  { name: 'review view of lab C\'s submission', method: 'GET', path: () => `/api/v1/review/${ids.submittedC}`, expect: { ...all(403), visitor: 401, curatorOfA: 200, curatorElsewhere: 200, admin: 200 } },
+  { name: 'return lab C\'s submission with a stale view', method: 'POST', path: () => `/api/v1/review/${ids.submittedC}/return`, body: () => ({ comment: 'stale view', expectedUpdatedAt: 0 }),
+    expect: { ...all(403), visitor: 401, curatorOfA: 409, curatorElsewhere: 409, admin: 409 } },
+  { name: 'withdraw a draft', method: 'POST', path: () => `/api/v1/datasets/${ids.draftA}/withdraw`, body: () => ({ reason: 'testing the permission table' }), expect: { ...adminOnly(), admin: 409 } },
+  { name: 'start a new version of lab A\'s published dataset', method: 'POST', path: () => `/api/v1/datasets/${ids.publishedA}/versions`,
+    expect: { visitor: 401, contributorA: 201, contributorB: 404, curatorOfA: 409, curatorElsewhere: 404, admin: 404, tokenOfA: 409 } }
 ]
 
 describe.each(CASES)('$method $name', (c) => {

@@ -3,7 +3,8 @@ import Ajv2020 from 'ajv/dist/2020.js'
 import addFormats from 'ajv-formats'
 import rateRecord from '../../../schemas/rate-record.v1.json'
 import dataset from '../../../schemas/dataset.v1.json'
-import { DATASETS, demoMetadata, demoRecords } from '../../../scripts/lib/scenario'
+import { DATASETS, SOLVENTS, demoMetadata, demoRecords } from '../../../scripts/lib/scenario'
+import { checkRecord } from '../../../shared/records/ingest'
 
 function ajv () {
   const a = new Ajv2020({ allErrors: true, strict: true, strictRequired: false })
@@ -39,6 +40,10 @@ describe('the public JSON Schemas', () => {
       expect(d, path).not.toBe('')
       if (!refOk && ((p as { type?: string }).type === 'number' || (p as { type?: string }).type === 'integer')) expect(d, path).toMatch(/Unit: /)
     }
+  })
+  it('every demo record also passes the rules every deposit path applies (checkRecord)', () => {
+    const ctx = { solvents: new Map(SOLVENTS.map(s => [s.name, { name: s.name, permittivity: s.permittivity, refractiveIndex: s.refractiveIndex, viscosity: s.viscosity }])) }
+    for (const ds of DATASETS) for (const v of [0, 1]) for (const r of demoRecords(ds, v)) expect(checkRecord(r, ctx).issues, JSON.stringify(r)).toEqual([])
   })
   it('every demo record and dataset is valid against the schemas', () => {
     const a = ajv()
