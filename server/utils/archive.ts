@@ -109,7 +109,7 @@ const SORTS: Record<string, SQL> = {
   donor: sql`${records.donorName} asc`, acceptor: sql`${records.acceptorName} asc`
 }
 
-function recordWhere (f: RecordFilters): SQL | undefined {
+export function recordWhere (f: RecordFilters): SQL | undefined {
   const like = (col: SQL | typeof records.donorName, q: string) => sql`lower(${col}) like ${'%' + q.toLowerCase() + '%'}`
   return and(
     sql`${records.versionId} in ${currentPublishedVersionIds()}`,

@@ -108,6 +108,10 @@ export function ris (v: CitableVersion): string {
 }
 
 export function cff (v: CitableVersion): string {
+  return toYaml(cffDoc(v))
+}
+
+export function cffDoc (v: CitableVersion): Record<string, unknown> {
   const doc: Record<string, unknown> = {
     'cff-version': '1.2.0',
     message: 'If you use these data, please cite them as below.',
@@ -126,7 +130,28 @@ export function cff (v: CitableVersion): string {
     ...(v.description ? { abstract: v.description } : {}),
     ...(v.conceptDoi ? { identifiers: [{ type: 'doi', value: v.conceptDoi, description: 'All versions of this dataset' }] } : {})
   }
-  return toYaml(doc)
+  return doc
+}
+
+/** CITATION.cff for a selection of records: cite the contributing datasets, listed as references. */
+export function selectionCff (cited: CitableVersion[], title: string, url: string): string {
+  const refs = cited.map((c) => {
+    const { 'cff-version': _v, message: _m, ...ref } = cffDoc(c)
+    return ref
+  })
+  const licences = [...new Set(cited.map(c => c.license))]
+  const authors = [...new Map(refs.flatMap(r => r.authors as Record<string, string>[]).map(a => [JSON.stringify(a), a])).values()]
+  return toYaml({
+    'cff-version': '1.2.0',
+    message: 'This is a selection of published records. Cite each dataset listed under references.',
+    type: 'dataset',
+    title,
+    authors: authors.length ? authors : [{ name: PUBLISHER }],
+    'date-released': new Date().toISOString().slice(0, 10),
+    url,
+    ...(licences.length ? { license: licences.length === 1 ? licences[0] : licences } : {}),
+    references: refs
+  })
 }
 
 /** schema.org Dataset for the landing page's head. */
