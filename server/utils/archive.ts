@@ -101,14 +101,6 @@ export interface RecordFilters {
   sort?: string
 }
 
-const SORTS: Record<string, SQL> = {
-  deltaG: sql`${records.deltaG} asc`, '-deltaG': sql`${records.deltaG} desc`,
-  log10Rate: sql`${records.log10Rate} asc`, '-log10Rate': sql`${records.log10Rate} desc`,
-  temperature: sql`${records.temperatureK} asc`, '-temperature': sql`${records.temperatureK} desc`,
-  distance: sql`${records.distanceAngstrom} asc`, '-distance': sql`${records.distanceAngstrom} desc`,
-  donor: sql`${records.donorName} asc`, acceptor: sql`${records.acceptorName} asc`
-}
-
 export function recordWhere (f: RecordFilters): SQL | undefined {
   const like = (col: SQL | typeof records.donorName, q: string) => sql`lower(${col}) like ${'%' + q.toLowerCase() + '%'}`
   return and(
@@ -137,23 +129,15 @@ export const RECORD_LIST_COLUMNS = {
   distanceAngstrom: records.distanceAngstrom, rate: records.rate, rateKind: records.rateKind, log10Rate: records.log10Rate, deltaG: records.deltaG
 }
 
-/** Published records (newest published version of each dataset) with facet counts over the same filter. */
-export async function searchRecords (f: RecordFilters) {
+/** The list rows of the given records, in the given order, with the search score. */
+export async function pagedRecords (ids: { id: number, score: number }[]) {
+  if (!ids.length) return []
   const db = await useDb()
-  const where = recordWhere(f)
-  const base = () => db.select(RECORD_LIST_COLUMNS).from(records)
+  const rows = await db.select(RECORD_LIST_COLUMNS).from(records)
     .innerJoin(versions, eq(records.versionId, versions.id)).innerJoin(datasets, eq(versions.datasetId, datasets.id)).innerJoin(labs, eq(labs.id, datasets.labId))
-  const items = await base().where(where).orderBy(SORTS[f.sort ?? ''] ?? sql`${records.id} asc`).limit(f.pageSize).offset((f.page - 1) * f.pageSize)
-  const counted = db.select({ n: sql<number>`count(*)` }).from(records).innerJoin(versions, eq(records.versionId, versions.id)).innerJoin(datasets, eq(versions.datasetId, datasets.id)).where(where)
-  const [{ n: total }] = await counted as [{ n: number }]
-  const facets: Record<string, Record<string, number>> = {}
-  for (const [name, col] of [['process', records.process], ['solvent', records.solvent], ['technique', records.technique], ['linkage', records.linkage], ['lab', labs.name]] as const) {
-    const rows = await db.select({ k: col, n: sql<number>`count(*)` }).from(records)
-      .innerJoin(versions, eq(records.versionId, versions.id)).innerJoin(datasets, eq(versions.datasetId, datasets.id)).innerJoin(labs, eq(labs.id, datasets.labId))
-      .where(where).groupBy(col).orderBy(sql`count(*) desc`)
-    facets[name] = Object.fromEntries(rows.filter(r => r.k !== null).map(r => [r.k, r.n]))
-  }
-  return { total, page: f.page, pageSize: f.pageSize, items, facets }
+    .where(inArray(records.id, ids.map(i => i.id)))
+  const byId = new Map(rows.map(r => [r.id, r]))
+  return ids.map(i => ({ ...byId.get(i.id)!, score: i.score })).filter(r => r.id !== undefined)
 }
 
 /** One record with its dataset; published ones for everybody, others only for who may see the version. */

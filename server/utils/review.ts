@@ -15,6 +15,7 @@ import { dataciteJson, type CitableVersion } from './citation'
 import { ensureDoi, RegistrarError, registrarPrefix } from './registrar'
 import { publicUrl, sendMail } from './mail'
 import type { DatasetMetadataV1 } from '../../shared/records/types'
+import { afterDatasetChange } from './search'
 
 const { datasets, datasetVersions: versions, rateRecords: records, labs, reviews, recordComments, users, labMemberships, auditEvents } = schema
 type Version = typeof versions.$inferSelect
@@ -144,6 +145,7 @@ export async function returnVersion (viewer: Viewer, datasetId: number, b: { com
     for (const c of b.recordComments ?? []) await tx.insert(recordComments).values({ reviewId: rev!.id, recordId: c.recordId, body: c.body })
     await tx.insert(auditEvents).values({ actorId: viewer.id, action: 'dataset.returned', targetType: 'dataset_version', targetId: String(version.id), detail: { comments: (b.recordComments ?? []).length } })
   })
+  await afterDatasetChange(datasetId)
   for (const to of await labEmails(dataset.labId)) {
     await sendMail(to, `Returned with comments: ${version.title}`, `A curator returned "${version.title}" (v${version.versionNumber}) for changes.\n\n${b.comment}\n\n${(b.recordComments ?? []).length} record(s) have comments. Answer them and resubmit:\n${publicUrl(`/deposit/${datasetId}`)}\n`)
   }
@@ -189,6 +191,7 @@ export async function acceptVersion (viewer: Viewer, datasetId: number, b: { com
     await tx.insert(reviews).values({ versionId: version.id, curatorId: viewer.id, decision: 'accepted', comment: b.comment ?? '' })
     await tx.insert(auditEvents).values({ actorId: viewer.id, action: 'dataset.published', targetType: 'dataset_version', targetId: String(version.id), detail: { doi: ids.version, conceptDoi: ids.concept } })
   })
+  await afterDatasetChange(datasetId)
   for (const to of await labEmails(dataset.labId)) {
     await sendMail(to, `Published: ${version.title}`, `"${version.title}" (v${version.versionNumber}) was accepted and published.\nCite it as https://doi.org/${ids.version} (all versions: https://doi.org/${ids.concept}).\n${publicUrl(`/datasets/${datasetId}`)}\n`)
   }
@@ -211,7 +214,7 @@ export async function newVersion (viewer: Viewer, datasetId: number) {
       select ${nv!.id}, position, record_key, data, donor_name, acceptor_name, bridge_name, linkage, process, solvent, technique, temperature_k, distance_angstrom, rate, rate_kind, log10_rate, delta_g, is_demo from rate_record where version_id = ${latest.id}`)
     await tx.insert(auditEvents).values({ actorId: viewer.id, action: 'dataset.new-version', targetType: 'dataset', targetId: String(datasetId), detail: { versionNumber: nv!.versionNumber } })
     return { versionNumber: nv!.versionNumber, state: 'draft' }
-  })
+  }).then(async (r) => { await afterDatasetChange(datasetId); return r })
 }
 
 export async function withdrawDataset (viewer: Viewer, datasetId: number, reason: string) {
@@ -225,6 +228,7 @@ export async function withdrawDataset (viewer: Viewer, datasetId: number, reason
     await tx.update(versions).set({ state: 'withdrawn', withdrawnAt: now, withdrawalReason: reason, updatedAt: now }).where(and(eq(versions.datasetId, datasetId), eq(versions.state, 'published')))
     await tx.insert(auditEvents).values({ actorId: viewer.id, action: 'dataset.withdrawn', targetType: 'dataset', targetId: String(datasetId), detail: { reason } })
   })
+  await afterDatasetChange(datasetId)
   for (const to of await labEmails(d.labId)) await sendMail(to, `Withdrawn: dataset ${datasetId}`, `The dataset was withdrawn: ${reason}\nIts identifiers keep resolving to a tombstone page: ${publicUrl(`/datasets/${datasetId}`)}\n`)
   return { state: 'withdrawn' }
 }

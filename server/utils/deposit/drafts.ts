@@ -10,6 +10,13 @@ import { compile } from '../validation'
 import rateRecordSchema from '../../../schemas/rate-record.v1.json'
 import { recordColumns, type RateRecordV1 } from '../../../shared/records/types'
 import type { IngestContext, SchemaValidator } from '../../../shared/records/ingest'
+import { afterDatasetChange } from '../search'
+
+async function touchVersion (versionId: number): Promise<void> {
+  const db = await useDb()
+  const [v] = await db.select({ datasetId: schema.datasetVersions.datasetId }).from(schema.datasetVersions).where(eq(schema.datasetVersions.id, versionId))
+  if (v) await afterDatasetChange(v.datasetId)
+}
 
 export function recordValidator (): SchemaValidator {
   return compile(rateRecordSchema as object) as SchemaValidator
@@ -66,7 +73,7 @@ export async function readOriginal (storageKey: string): Promise<Uint8Array> {
 /** Appends (or, with replace, swaps in) records of a draft version in one transaction; all or nothing. */
 export async function writeRecords (versionId: number, records: RateRecordV1[], mode: 'append' | 'replace'): Promise<number> {
   const db = await useDb()
-  return db.transaction(async (tx) => {
+  const n = await db.transaction(async (tx) => {
     if (mode === 'replace') await tx.delete(schema.rateRecords).where(eq(schema.rateRecords.versionId, versionId))
     const [{ maxPos }] = await tx.select({ maxPos: sql<number>`coalesce(max(position), 0)` }).from(schema.rateRecords).where(eq(schema.rateRecords.versionId, versionId)) as [{ maxPos: number }]
     const rows = records.map((data, i) => ({ versionId, position: maxPos + i + 1, recordKey: randomUUID(), data: data as unknown as Record<string, unknown>, ...recordColumns(data) }))
@@ -75,17 +82,21 @@ export async function writeRecords (versionId: number, records: RateRecordV1[], 
     await tx.update(schema.datasetVersions).set({ recordCount: n, updatedAt: new Date() }).where(eq(schema.datasetVersions.id, versionId))
     return n
   })
+  await touchVersion(versionId)
+  return n
 }
 
 export async function deleteRecords (versionId: number, ids: number[]): Promise<number> {
   const db = await useDb()
-  return db.transaction(async (tx) => {
+  const left = await db.transaction(async (tx) => {
     const gone = await tx.delete(schema.rateRecords).where(and(eq(schema.rateRecords.versionId, versionId), inArray(schema.rateRecords.id, ids))).returning({ id: schema.rateRecords.id })
     if (gone.length !== ids.length) throw httpError(404, `${ids.length - gone.length} of the records are not in this draft; nothing was deleted`)
     const [{ n }] = await tx.select({ n: sql<number>`count(*)` }).from(schema.rateRecords).where(eq(schema.rateRecords.versionId, versionId)) as [{ n: number }]
     await tx.update(schema.datasetVersions).set({ recordCount: n, updatedAt: new Date() }).where(eq(schema.datasetVersions.id, versionId))
     return n
   })
+  await touchVersion(versionId)
+  return left
 }
 
 export async function replaceRecord (versionId: number, recordId: number, data: RateRecordV1): Promise<void> {
@@ -93,4 +104,5 @@ export async function replaceRecord (versionId: number, recordId: number, data: 
   const rows = await db.update(schema.rateRecords).set({ data: data as unknown as Record<string, unknown>, ...recordColumns(data), updatedAt: new Date() })
     .where(and(eq(schema.rateRecords.id, recordId), eq(schema.rateRecords.versionId, versionId))).returning({ id: schema.rateRecords.id })
   if (!rows.length) throw httpError(404, 'No such record in this draft')
+  await touchVersion(versionId)
 }

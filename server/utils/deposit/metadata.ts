@@ -11,6 +11,7 @@ import { checkRecords } from './check'
 import { ingestContext, recordValidator } from './drafts'
 import type { Viewer } from '../auth'
 import type { DatasetMetadataV1 } from '../../../shared/records/types'
+import { afterDatasetChange } from '../search'
 
 /** The dataset schema's own properties, so that the API and the schema can never disagree. */
 export const datasetMetaSchema = { ...(datasetSchema as { properties: Record<string, any> }), $id: undefined, $schema: undefined } as unknown as { type: 'object', properties: Record<string, any>, required: string[] }
@@ -30,7 +31,7 @@ export async function createDraft (viewer: Viewer, labId: number, title: string,
     await tx.insert(schema.datasetVersions).values({ datasetId: d!.id, versionNumber: 1, state: 'draft', title, description, metadata: metadata as never, license: metadata.license })
     await tx.insert(schema.auditEvents).values({ actorId: viewer.id, action: 'dataset.created', targetType: 'dataset', targetId: String(d!.id), detail: { labId } })
     return { id: d!.id, versionNumber: 1, state: 'draft' }
-  })
+  }).then(async (r) => { await afterDatasetChange(r.id); return r })
 }
 
 /** Rules the schema cannot state: ORCID check characters, DOI syntax, a sensible embargo date. */
@@ -58,6 +59,7 @@ export async function updateMetadata (viewer: Viewer, version: Version, patch: D
     license: merged.license ?? version.license, embargoUntil: merged.embargoUntil ?? null, updatedAt: new Date()
   }).where(eq(schema.datasetVersions.id, version.id))
   await audit(viewer.id, 'dataset.metadata-changed', 'dataset_version', version.id, { fields: Object.keys(patch) })
+  await afterDatasetChange(version.datasetId)
   return { metadata: merged }
 }
 
@@ -81,6 +83,7 @@ export async function submitDraft (viewer: Viewer, version: Version) {
   const db = await useDb()
   await db.update(schema.datasetVersions).set({ state: 'submitted', submittedAt: new Date(), updatedAt: new Date() }).where(eq(schema.datasetVersions.id, version.id))
   await audit(viewer.id, 'dataset.submitted', 'dataset_version', version.id, { from: version.state })
+  await afterDatasetChange(version.datasetId)
   const curators = await db.select({ email: schema.users.email }).from(schema.users).where(inArray(schema.users.role, ['curator', 'admin']))
   for (const c of curators) {
     await sendMail(c.email, `Submitted for review: ${version.title}`, `${viewer.name ?? viewer.email} submitted "${version.title}" (${version.recordCount} records) for review.\n${publicUrl(`/datasets/${version.datasetId}`)}\n`)

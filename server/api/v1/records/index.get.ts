@@ -1,25 +1,30 @@
-import { searchRecords, type RecordFilters } from '../../../utils/archive'
+import { getViewer } from '../../../utils/auth'
+import { pagedRecords } from '../../../utils/archive'
+import { runSearch, useSearch, type SearchQuery } from '../../../utils/search'
 import { coerceNumbers, queryValidated } from '../../../utils/validation'
 import { pagingProperties } from '../../../utils/params'
 
-const numberKeys = ['deltaGMin', 'deltaGMax', 'temperatureMin', 'temperatureMax', 'distanceMin', 'distanceMax', 'log10RateMin', 'log10RateMax', 'page', 'pageSize', 'lab']
+const RANGE_KEYS = ['deltaGMin', 'deltaGMax', 'temperatureMin', 'temperatureMax', 'distanceMin', 'distanceMax', 'log10RateMin', 'log10RateMax', 'yearMin', 'yearMax']
 const querySchema = {
   type: 'object', additionalProperties: false,
   properties: {
     q: { type: 'string', maxLength: 200 }, process: { type: 'string', maxLength: 60 }, solvent: { type: 'string', maxLength: 120 },
     technique: { type: 'string', maxLength: 60 }, linkage: { type: 'string', maxLength: 60 }, lab: { type: 'integer', minimum: 1 },
     sort: { enum: ['deltaG', '-deltaG', 'log10Rate', '-log10Rate', 'temperature', '-temperature', 'distance', '-distance', 'donor', 'acceptor'] },
-    ...Object.fromEntries(numberKeys.filter(k => !['page', 'pageSize', 'lab'].includes(k)).map(k => [k, { type: 'number' }])),
+    ...Object.fromEntries(RANGE_KEYS.map(k => [k, { type: 'number' }])),
     ...pagingProperties
   }
 }
 
-defineRouteMeta({ openAPI: { tags: ['records'], summary: 'Search published records, with facet counts', parameters: [
-  'q', 'process', 'solvent', 'technique', 'linkage', 'lab', 'deltaGMin', 'deltaGMax', 'temperatureMin', 'temperatureMax', 'distanceMin', 'distanceMax', 'log10RateMin', 'log10RateMax', 'sort', 'page', 'pageSize'
+defineRouteMeta({ openAPI: { tags: ['records'], summary: 'Search records (published ones; signed-in members also find their lab\'s drafts): full text with prefix and typo tolerance, facet counts and value ranges', parameters: [
+  'q', 'process', 'solvent', 'technique', 'linkage', 'lab', ...RANGE_KEYS, 'sort', 'page', 'pageSize'
 ].map(name => ({ in: 'query', name, schema: { type: 'string' } })) } })
 
 export default defineEventHandler(async (event) => {
-  const q = queryValidated<Omit<RecordFilters, 'page' | 'pageSize' | 'labId'> & { page?: number, pageSize?: number, lab?: number }>(event, querySchema, coerceNumbers(numberKeys))
+  const q = queryValidated<Omit<SearchQuery, 'page' | 'pageSize' | 'labId'> & { page?: number, pageSize?: number, lab?: number }>(event, querySchema, coerceNumbers([...RANGE_KEYS, 'page', 'pageSize', 'lab']))
+  const viewer = await getViewer(event)
   const { lab, ...rest } = q
-  return searchRecords({ ...rest, labId: lab, page: q.page ?? 1, pageSize: q.pageSize ?? 50 })
+  const page = q.page ?? 1; const pageSize = q.pageSize ?? 50
+  const res = runSearch(await useSearch(), { ...rest, labId: lab, page, pageSize }, viewer)
+  return { total: res.total, page, pageSize, items: await pagedRecords(res.ids), facets: res.facets, ranges: res.ranges }
 })

@@ -1,6 +1,6 @@
-import { getViewer } from '../../../utils/auth'
-import { getRecord } from '../../../utils/archive'
-import { intParam } from '../../../utils/params'
+import { getViewer } from '../../../../utils/auth'
+import { getRecord } from '../../../../utils/archive'
+import { intParam } from '../../../../utils/params'
 
 defineRouteMeta({ openAPI: { tags: ['records'], summary: 'One record in the open format, with its dataset and provenance' } })
 
