@@ -46,6 +46,19 @@ function prepareFileDatabase (url: string): string {
   return `file:${path}`
 }
 
+/** Refuses a damaged database file rather than serving (and writing to) it. */
+export async function assertIntact (client: Client, url: string): Promise<void> {
+  let verdict: string
+  try {
+    const rows = (await client.execute('PRAGMA integrity_check')).rows
+    verdict = rows.map(r => String(Object.values(r)[0])).join('; ')
+  } catch (e) { verdict = (e as Error).message }
+  if (verdict !== 'ok') {
+    client.close()
+    throw new Error(`The database ${url} is damaged (integrity check: ${verdict.slice(0, 300)}). Crosspoint will not serve it; restore the newest backup with npm run restore`)
+  }
+}
+
 export async function openDatabase (url: string, authToken?: string): Promise<{ db: Db, client: Client }> {
   const client = createClient({ url: prepareFileDatabase(url), authToken: authToken || undefined })
   if (url.startsWith('file:')) {
@@ -53,6 +66,7 @@ export async function openDatabase (url: string, authToken?: string): Promise<{ 
     await client.execute('PRAGMA busy_timeout = 5000')
   }
   await client.execute('PRAGMA foreign_keys = ON')
+  if (url.startsWith('file:')) await assertIntact(client, url)
   const db = drizzle(client, { schema })
   await migrate(db, { migrationsFolder: findMigrationsFolder() })
   return { db, client }

@@ -10,7 +10,7 @@ const ROLES: Role[] = ['visitor', 'contributorA', 'contributorB', 'curatorOfA', 
 
 let s: TestServer
 const auth: Record<Role, Record<string, string>> = {} as never
-const ids = { draftA: 3, publishedA: 2, returnedB: 7, submittedC: 11, withdrawnC: 10, labA: 0, solvent: 1 }
+const ids = { draftA: 3, publishedA: 2, returnedB: 7, submittedC: 11, withdrawnC: 10, labA: 0, solvent: 1, publishedRecord: 0 }
 
 beforeAll(async () => {
   s = await startServer({ seed: true })
@@ -32,6 +32,7 @@ beforeAll(async () => {
     tokenOfA: { authorization: `Bearer ${token}` }
   })
   ids.labA = (await api(s.url, '/api/v1/me', { headers: { cookie: a } })).data.user.labIds[0]
+  ids.publishedRecord = (await api(s.url, '/api/v1/records?pageSize=1')).data.items[0].id
   // the fixture ids must be in the states the table assumes
   const all = (await api(s.url, '/api/v1/datasets?pageSize=100', { headers: { cookie: admin } })).data.items
   const state = (id: number) => all.find((d: { id: number }) => d.id === id)?.state
@@ -75,6 +76,14 @@ const CASES: Case[] = [
   { name: 'mail outbox', method: 'GET', path: () => '/api/v1/admin/outbox', expect: adminOnly() },
   { name: 'audit trail', method: 'GET', path: () => '/api/v1/admin/audit', expect: adminOnly() },
   { name: 'local registrar', method: 'GET', path: () => '/api/v1/admin/registrar', expect: adminOnly() },
+  { name: 'fixity check', method: 'GET', path: () => '/api/v1/admin/fixity', expect: adminOnly() },
+  { name: 'take a backup', method: 'POST', path: () => '/api/v1/admin/backups', expect: adminOnly() },
+  { name: 'rehearse a registrar outage of 0 requests', method: 'POST', path: () => '/api/v1/admin/registrar/fail', body: () => ({ count: 0 }), expect: adminOnly() },
+  { name: 'similar systems of a published record', method: 'GET', path: () => `/api/v1/records/${ids.publishedRecord}/similar?limit=3`, expect: all(200) },
+  { name: 'bundle of a published dataset', method: 'GET', path: () => `/api/v1/datasets/${ids.publishedA}/bundle`, expect: all(200) },
+  { name: 'bundle of a draft of lab A', method: 'GET', path: () => `/api/v1/datasets/${ids.draftA}/bundle`,
+    expect: { visitor: 404, contributorA: 200, contributorB: 404, curatorOfA: 200, curatorElsewhere: 404, admin: 200, tokenOfA: 200 } },
+  { name: 'bundle of chosen published records', method: 'POST', path: () => '/api/v1/bundles', body: () => ({ recordIds: [ids.publishedRecord] }), expect: all(200) },
   { name: 'templates', method: 'GET', path: () => '/api/v1/templates/records.csv', expect: all(200) },
   { name: 'cite a published dataset', method: 'GET', path: () => `/api/v1/datasets/${ids.publishedA}/citation?format=bibtex`, expect: all(200) },
   { name: 'audit trail of a draft of lab A', method: 'GET', path: () => `/api/v1/datasets/${ids.draftA}/audit`,

@@ -1,0 +1,93 @@
+/**
+ * Online backups and restores. A backup is a dated folder holding a consistent copy of the
+ * database (SQLite's VACUUM INTO, safe while writes go on), every stored upload, a SHA256SUMS file
+ * and backup.json. A restore verifies all of it, and the copy's integrity, before it replaces anything.
+ */
+import { createHash } from 'node:crypto'
+import { copyFile, mkdir, readdir, readFile, rename, rm, stat, writeFile } from 'node:fs/promises'
+import { dirname, isAbsolute, join, relative, resolve } from 'node:path'
+import { createClient } from '@libsql/client'
+import { assertIntact } from './db'
+
+export function resolveFileUrl (url: string): string {
+  if (!url.startsWith('file:')) throw new Error('Backups cover the embedded SQLite file; a libSQL server is backed up by its own tooling')
+  const raw = url.slice(5)
+  return isAbsolute(raw) ? raw : resolve(process.cwd(), raw)
+}
+
+async function sha256File (path: string): Promise<string> {
+  return createHash('sha256').update(await readFile(path)).digest('hex')
+}
+
+async function listFiles (dir: string): Promise<string[]> {
+  const out: string[] = []
+  const walk = async (d: string) => {
+    for (const e of await readdir(d, { withFileTypes: true }).catch(() => [])) {
+      const p = join(d, e.name)
+      if (e.isDirectory()) await walk(p)
+      else if (e.isFile()) out.push(p)
+    }
+  }
+  await walk(dir)
+  return out
+}
+
+export interface BackupResult { folder: string, files: number, bytes: number, records: number, publishedVersions: number }
+
+export async function backup (opts: { databaseUrl: string, dataDir: string, backupDir: string }): Promise<BackupResult> {
+  const stamp = new Date().toISOString().replace(/[:.]/g, '-')
+  const folder = join(resolve(opts.backupDir), `crosspoint-${stamp}`)
+  await mkdir(join(folder, 'files'), { recursive: true })
+  const db = createClient({ url: `file:${resolveFileUrl(opts.databaseUrl)}` })
+  try {
+    await db.execute({ sql: 'VACUUM INTO ?', args: [join(folder, 'crosspoint.db')] })
+    const records = Number((await db.execute('select count(*) n from rate_record')).rows[0]!.n)
+    const publishedVersions = Number((await db.execute("select count(*) n from dataset_version where state = 'published'")).rows[0]!.n)
+    const uploadsDir = join(resolve(opts.dataDir), 'uploads')
+    for (const f of await listFiles(uploadsDir)) {
+      const dest = join(folder, 'files', 'uploads', relative(uploadsDir, f))
+      await mkdir(dirname(dest), { recursive: true })
+      await copyFile(f, dest)
+    }
+    const all = (await listFiles(folder)).filter(f => !f.endsWith('SHA256SUMS'))
+    const lines: string[] = []
+    let bytes = 0
+    for (const f of all.sort()) { lines.push(`${await sha256File(f)}  ${relative(folder, f)}`); bytes += (await stat(f)).size }
+    await writeFile(join(folder, 'backup.json'), JSON.stringify({ createdAt: new Date().toISOString(), records, publishedVersions, files: all.length }, null, 2))
+    lines.push(`${await sha256File(join(folder, 'backup.json'))}  backup.json`)
+    await writeFile(join(folder, 'SHA256SUMS'), lines.join('\n') + '\n')
+    return { folder, files: all.length + 1, bytes, records, publishedVersions }
+  } finally { db.close() }
+}
+
+/** Checks every checksum and the copied database's integrity; throws with the first problem. */
+export async function verifyBackup (folder: string): Promise<void> {
+  const sums = await readFile(join(folder, 'SHA256SUMS'), 'utf8').catch(() => { throw new Error(`${folder} has no SHA256SUMS: not a Crosspoint backup`) })
+  for (const line of sums.trim().split('\n')) {
+    const [hash, path] = line.split(/\s+/)
+    const p = join(folder, path!)
+    if (relative(folder, p).startsWith('..')) throw new Error(`SHA256SUMS names a path outside the backup: ${path}`)
+    const actual = await sha256File(p).catch(() => 'missing')
+    if (actual !== hash) throw new Error(`Checksum mismatch for ${path} (${actual === 'missing' ? 'file missing' : 'content changed'}); this backup cannot be trusted`)
+  }
+  const db = createClient({ url: `file:${join(folder, 'crosspoint.db')}` })
+  try { await assertIntact(db, join(folder, 'crosspoint.db')) } finally { db.close() }
+}
+
+/** Verifies, then swaps the backup in (the server must be stopped). The replaced files are kept beside it. */
+export async function restore (opts: { folder: string, databaseUrl: string, dataDir: string }): Promise<{ kept: string }> {
+  await verifyBackup(opts.folder)
+  const target = resolveFileUrl(opts.databaseUrl)
+  const kept = `${target}.before-restore-${Date.now()}`
+  await mkdir(dirname(target), { recursive: true })
+  await rename(target, kept).catch(() => {})
+  for (const ext of ['-wal', '-shm']) await rm(target + ext, { force: true })
+  await copyFile(join(opts.folder, 'crosspoint.db'), target)
+  const uploads = join(resolve(opts.dataDir), 'uploads')
+  for (const f of await listFiles(join(opts.folder, 'files', 'uploads'))) {
+    const dest = join(uploads, relative(join(opts.folder, 'files', 'uploads'), f))
+    await mkdir(dirname(dest), { recursive: true })
+    await copyFile(f, dest)
+  }
+  return { kept }
+}
