@@ -14,7 +14,7 @@ if (process.env.SHOT_USER) {
 for (const p of paths) {
   await page.goto(base + p, { waitUntil: 'networkidle' })
   await page.waitForTimeout(600)
-  const name = p.replace(/[^a-z0-9]+/gi, '_') || 'home'
+  const name = (p.replace(/[^a-z0-9]+/gi, '_') || 'home').slice(0, 40)
   await page.screenshot({ path: `/tmp/shot${name}.png`, fullPage: true })
   console.log('shot', p, `/tmp/shot${name}.png`)
 }

@@ -126,7 +126,10 @@ export const RECORD_LIST_COLUMNS = {
   id: records.id, versionId: records.versionId, datasetId: datasets.id, datasetTitle: versions.title, doi: versions.doi, labName: labs.name,
   donorName: records.donorName, acceptorName: records.acceptorName, bridgeName: records.bridgeName, linkage: records.linkage,
   process: records.process, solvent: records.solvent, technique: records.technique, temperatureK: records.temperatureK,
-  distanceAngstrom: records.distanceAngstrom, rate: records.rate, rateKind: records.rateKind, log10Rate: records.log10Rate, deltaG: records.deltaG
+  distanceAngstrom: records.distanceAngstrom, rate: records.rate, rateKind: records.rateKind, log10Rate: records.log10Rate, deltaG: records.deltaG,
+  rateUncertainty: sql<number | null>`json_extract(${records.data}, '$.rate.uncertainty')`,
+  lambdaSolvent: sql<number | null>`json_extract(${records.data}, '$.reportedParameters.lambdaSolvent')`,
+  license: versions.license, versionNumber: versions.versionNumber
 }
 
 /** The list rows of the given records, in the given order, with the search score. */

@@ -135,6 +135,7 @@ export interface SearchQuery {
   q?: string, process?: string, solvent?: string, technique?: string, linkage?: string, labId?: number
   deltaGMin?: number, deltaGMax?: number, temperatureMin?: number, temperatureMax?: number, distanceMin?: number, distanceMax?: number, log10RateMin?: number, log10RateMax?: number
   yearMin?: number, yearMax?: number
+  ids?: number[]
   sort?: string, page: number, pageSize: number
 }
 
@@ -143,8 +144,9 @@ const inRange = (v: number | null, lo?: number, hi?: number) => (lo === undefine
 /** Hits with facet counts and value ranges; pure over the index, so the benchmark can call it. */
 export function runSearch (s: Pick<State, 'index' | 'docs'>, query: SearchQuery, viewer: Pick<Viewer, 'labIds'> | null) {
   const labs = new Set(viewer?.labIds ?? [])
+  const only = query.ids ? new Set(query.ids) : null
   const visible = (d: SearchDoc) => d.visibility === 'public' || labs.has(d.labId)
-  const pass = (d: SearchDoc) => visible(d) &&
+  const pass = (d: SearchDoc) => visible(d) && (!only || only.has(d.id)) &&
     (!query.process || d.process === query.process) && (!query.solvent || d.solvent === query.solvent) &&
     (!query.technique || d.technique === query.technique) && (!query.linkage || d.linkage === query.linkage) &&
     (!query.labId || d.labId === query.labId) &&
@@ -154,6 +156,8 @@ export function runSearch (s: Pick<State, 'index' | 'docs'>, query: SearchQuery,
   let hits: { doc: SearchDoc, score: number }[]
   if (query.q?.trim()) {
     hits = s.index.search(query.q, { filter: r => pass(s.docs.get(r.id as number)!) }).map(r => ({ doc: s.docs.get(r.id as number)!, score: r.score }))
+  } else if (only) {
+    hits = [...only].map(id => s.docs.get(id)).filter((d): d is SearchDoc => !!d && pass(d)).map(d => ({ doc: d, score: 0 }))
   } else {
     hits = []
     for (const d of s.docs.values()) if (pass(d)) hits.push({ doc: d, score: 0 })
