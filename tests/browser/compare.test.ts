@@ -1,0 +1,48 @@
+import { readFileSync } from 'node:fs'
+import { afterAll, beforeAll, describe, expect, it } from 'vitest'
+import type { Browser } from 'playwright-core'
+import { startServer, type TestServer } from '../helpers/server'
+import { launch, newPage, shot } from '../helpers/browser'
+
+let s: TestServer
+let browser: Browser
+beforeAll(async () => { [s, browser] = await Promise.all([startServer({ seed: true }), launch()]) })
+afterAll(async () => { await browser?.close(); await s?.stop() })
+
+describe('compare', () => {
+  it('builds a selection from search, fits it, exports a cited SVG, and a shared link reproduces the view', async () => {
+    const { page, errors } = await newPage(browser)
+    await page.goto(`${s.url}/explore?solvent=benzonitrile&pageSize=100`, { waitUntil: 'networkidle' })
+    await page.click('[data-test=add-to-compare]')
+    await page.waitForURL(/\/compare\?/)
+    await page.waitForSelector('[data-test=rate-plot] svg circle')
+    const [resp] = await Promise.all([page.waitForResponse(r => r.url().endsWith('/api/v1/model/fit')), page.click('[data-test=compare-fit]')])
+    const fit = await resp.json()
+    await page.waitForSelector('[data-test=compare-fit-result]')
+    expect(await page.locator('[data-test=cfit-lambdaSolvent]').textContent()).toBe(fit.parameters.lambdaSolvent.value.toPrecision(4))
+    expect(await page.locator('[data-test=cfit-coupling]').textContent()).toBe(fit.parameters.coupling.value.toPrecision(4))
+    // the fit the page asked for is the fit the API gives for the same points
+    const again = await (await fetch(`${s.url}/api/v1/model/fit`, { method: 'POST', headers: { 'content-type': 'application/json' }, body: resp.request().postData()! })).json() as any
+    expect(again.parameters.lambdaSolvent.value).toBe(fit.parameters.lambdaSolvent.value)
+
+    const [download] = await Promise.all([page.waitForEvent('download'), page.click('[data-test=export-svg]')])
+    const svg = readFileSync((await download.path())!, 'utf8')
+    const dois = [...new Set(((await page.locator('[data-test=caption]').textContent()) ?? '').match(/10\.99999\/[\w.-]+/g) ?? [])]
+    expect(dois.length).toBeGreaterThan(0)
+    for (const d of dois) expect(svg).toContain(d)
+    expect(svg).toContain('<svg')
+    await shot(page, 'compare')
+
+    const link = page.url()
+    const caption = await page.locator('[data-test=caption]').textContent()
+    const other = await browser.newContext()
+    const p2 = await other.newPage()
+    await p2.goto(link, { waitUntil: 'networkidle' })
+    await p2.waitForSelector('[data-test=rate-plot] svg circle')
+    expect(await p2.locator('[data-test=caption]').textContent()).toBe(caption)
+    expect(await p2.locator('[data-test=rate-plot]').first().locator('svg circle').count()).toBe(await page.locator('[data-test=rate-plot]').first().locator('svg circle').count())
+    await other.close()
+    expect(errors).toEqual([])
+    await page.close()
+  })
+})
