@@ -1,0 +1,52 @@
+/**
+ * Mixed load against the built server: 60 s at 50 connections of search, record pages, model
+ * curves, bundle downloads and sign-in attempts, on the seeded demo database. Reports throughput,
+ * p50/p99 latency, 5xx answers (must be 0; 429s from the limits are expected) and memory.
+ */
+import { spawn } from 'node:child_process'
+import { existsSync, mkdtempSync, readFileSync, rmSync } from 'node:fs'
+import { createServer } from 'node:net'
+import { tmpdir } from 'node:os'
+import { join } from 'node:path'
+import autocannon from 'autocannon'
+import { report } from './report'
+
+const entry = join(import.meta.dirname, '../.output/server/index.mjs')
+if (!existsSync(entry)) { process.stderr.write('load benchmark skipped: run `npm run build` first\n'); process.exit(0) }
+const dir = mkdtempSync(join(tmpdir(), 'crosspoint-load-'))
+const dbUrl = `file:${join(dir, 'load.db')}`
+const { seed } = await import('../scripts/seed')
+await seed(dbUrl)
+const port = await new Promise<number>(r => { const s = createServer(); s.listen(0, '127.0.0.1', () => { const p = (s.address() as { port: number }).port; s.close(() => r(p)) }) })
+const url = `http://127.0.0.1:${port}`
+const proc = spawn(process.execPath, [entry], { env: { ...process.env, PORT: String(port), HOST: '127.0.0.1', NUXT_DATABASE_URL: dbUrl, NUXT_DATA_DIR: dir, AUTH_ORIGIN: `${url}/api/auth` }, stdio: 'ignore' })
+for (let i = 0; i < 300; i++) { try { if ((await fetch(`${url}/api/v1/health`)).ok) break } catch { /* starting */ } await new Promise(r => setTimeout(r, 100)) }
+const rss = () => Number(readFileSync(`/proc/${proc.pid}/status`, 'utf8').match(/VmRSS:\s+(\d+)/)![1]) / 1024
+const ids = (await (await fetch(`${url}/api/v1/records?pageSize=200`)).json() as { items: { id: number }[] }).items.map(i => i.id)
+const words = ['porphyrin', 'znp', 'benzonitril', 'viologen', 'acridinium', 'copper', 'imide', 'water']
+const rssStart = rss()
+let n = 0
+const mix = [
+  () => ({ method: 'GET', path: `/api/v1/records?q=${words[n % words.length]}&pageSize=20` }),
+  () => ({ method: 'GET', path: `/api/v1/records/${ids[n % ids.length]}` }),
+  () => ({ method: 'POST', path: '/api/v1/model/curve', headers: { 'content-type': 'application/json' }, body: JSON.stringify({ model: 'semiclassical', temperatureK: 298.15, lambdaSolvent: 0.6, lambdaInternal: 0.3, vibrationEnergy: 0.18, coupling: 0.005, drivingForces: Array.from({ length: 200 }, (_, i) => -2 + i / 100) }) }),
+  () => ({ method: 'GET', path: `/datasets/${2 + (n % 3)}` }),
+  () => ({ method: 'GET', path: '/api/v1/datasets/12/bundle' }),
+  () => ({ method: 'POST', path: '/api/auth/callback/credentials', headers: { 'content-type': 'application/x-www-form-urlencoded' }, body: `email=user${n}@example.org&password=wrong&csrfToken=x` })
+]
+const res = await autocannon({
+  url, connections: 50, duration: Number(process.env.LOAD_SECONDS ?? 60),
+  requests: [{ setupRequest: (req: Record<string, unknown>) => ({ ...req, ...mix[n++ % mix.length]!() }) }]
+})
+const codes = res.statusCodeStats as Record<string, { count: number }>
+const fiveXX = Object.entries(codes).filter(([c]) => c.startsWith('5')).reduce((s, [, v]) => s + v.count, 0)
+const rssEnd = rss()
+proc.kill('SIGTERM')
+report('load.mixed.requests_per_second', res.requests.average, '1/s', 0)
+report('load.mixed.p50_ms', res.latency.p50, 'ms', 0)
+report('load.mixed.p99_ms', res.latency.p99, 'ms', 0)
+report('load.mixed.errors', fiveXX + res.errors + res.timeouts, 'count', 0)
+report('load.mixed.rss_start_mb', rssStart, 'MB', 0)
+report('load.mixed.rss_end_mb', rssEnd, 'MB', 0)
+process.stderr.write(`(status codes: ${JSON.stringify(Object.fromEntries(Object.entries(codes).map(([k, v]) => [k, v.count])))})\n`)
+rmSync(dir, { recursive: true, force: true })
