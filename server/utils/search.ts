@@ -51,7 +51,7 @@ export function newIndex () {
   return new MiniSearch<SearchDoc>({ fields: FIELDS, storeFields: [], idField: 'id', searchOptions: SEARCH_OPTIONS })
 }
 
-interface State { index: MiniSearch<SearchDoc>, docs: Map<number, SearchDoc>, byDataset: Map<number, number[]>, lastSync: number }
+interface State { index: MiniSearch<SearchDoc>, docs: Map<number, SearchDoc>, byDataset: Map<number, number[]>, lastSync: number, generation: number }
 let state: Promise<State> | undefined
 
 /** Rows → documents. Kept separate from the database so the benchmark can feed synthetic records. */
@@ -95,7 +95,7 @@ async function build (): Promise<State> {
   index.addAll(docs)
   const byDataset = new Map<number, number[]>()
   for (const d of docs) { const l = byDataset.get(d.datasetId) ?? []; l.push(d.id); byDataset.set(d.datasetId, l) }
-  return { index, docs: new Map(docs.map(d => [d.id, d])), byDataset, lastSync: start }
+  return { index, docs: new Map(docs.map(d => [d.id, d])), byDataset, lastSync: start, generation: 0 }
 }
 
 export function useSearch (): Promise<State> {
@@ -114,6 +114,8 @@ export async function reindexDatasets (ids: number[]): Promise<void> {
     s.byDataset.delete(id)
   }
   const fresh = await loadDocs(ids)
+  s.generation++
+  resultCache.clear()
   s.index.addAll(fresh)
   for (const d of fresh) { s.docs.set(d.id, d); const l = s.byDataset.get(d.datasetId) ?? []; l.push(d.id); s.byDataset.set(d.datasetId, l) }
   if (s.index.dirtCount > 2000) s.index.vacuum().catch(() => {})
@@ -137,6 +139,26 @@ export interface SearchQuery {
   yearMin?: number, yearMax?: number
   ids?: number[]
   sort?: string, page: number, pageSize: number
+}
+
+/**
+ * Answers per (query, viewer's labs), dropped whenever the index changes: the same searches come
+ * back again and again (shared links, paging back), and each costs a scan of the hits for facets.
+ */
+const resultCache = new Map<string, Promise<unknown>>()
+const CACHE_SIZE = 1000
+
+/** The search answer (shaped by `finish`, e.g. with the page's rows), cached until the index changes. */
+export async function cachedSearch<T> (query: SearchQuery, viewer: Pick<Viewer, 'labIds'> | null, finish: (r: ReturnType<typeof runSearch>) => Promise<T>): Promise<T> {
+  const s = await useSearch()
+  const key = JSON.stringify([s.generation, query, [...(viewer?.labIds ?? [])].sort()])
+  const hit = resultCache.get(key)
+  if (hit) { resultCache.delete(key); resultCache.set(key, hit); return hit as Promise<T> }
+  const res = finish(runSearch(s, query, viewer))
+  resultCache.set(key, res)
+  res.catch(() => resultCache.delete(key))
+  if (resultCache.size > CACHE_SIZE) resultCache.delete(resultCache.keys().next().value!)
+  return res
 }
 
 const inRange = (v: number | null, lo?: number, hi?: number) => (lo === undefined || (v !== null && v >= lo)) && (hi === undefined || (v !== null && v <= hi))

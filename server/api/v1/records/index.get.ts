@@ -1,6 +1,6 @@
 import { getViewer } from '../../../utils/auth'
 import { pagedRecords } from '../../../utils/archive'
-import { runSearch, useSearch, type SearchQuery } from '../../../utils/search'
+import { cachedSearch, type SearchQuery } from '../../../utils/search'
 import { coerceNumbers, queryValidated } from '../../../utils/validation'
 import { pagingProperties } from '../../../utils/params'
 
@@ -25,6 +25,6 @@ export default defineEventHandler(async (event) => {
   const viewer = await getViewer(event)
   const { lab, ids, ...rest } = q as typeof q & { ids?: string }
   const page = q.page ?? 1; const pageSize = q.pageSize ?? 50
-  const res = runSearch(await useSearch(), { ...rest, labId: lab, ids: ids ? ids.split(',').map(Number) : undefined, page, pageSize }, viewer)
-  return { total: res.total, page, pageSize, items: await pagedRecords(res.ids), facets: res.facets, ranges: res.ranges }
+  return cachedSearch({ ...rest, labId: lab, ids: ids ? ids.split(',').map(Number) : undefined, page, pageSize }, viewer,
+    async res => ({ total: res.total, page, pageSize, items: await pagedRecords(res.ids), facets: res.facets, ranges: res.ranges }))
 })
