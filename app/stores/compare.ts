@@ -34,10 +34,20 @@ export const useCompareStore = defineStore('compare', () => {
     if (['dataset', 'solvent', 'process', 'temperature'].includes(String(q.group))) groupBy.value = q.group as GroupBy
     params.value = { lambdaSolvent: num('ls', DEFAULT_PARAMS.lambdaSolvent), lambdaInternal: num('li', DEFAULT_PARAMS.lambdaInternal), vibrationEnergy: num('hw', DEFAULT_PARAMS.vibrationEnergy), coupling: num('v', DEFAULT_PARAMS.coupling), temperatureK: num('t', DEFAULT_PARAMS.temperatureK) }
   }
-  if (import.meta.client) {
-    try { recordIds.value = JSON.parse(localStorage.getItem('crosspoint.compare.ids') ?? '[]'); ownPoints.value = JSON.parse(localStorage.getItem('crosspoint.compare.own') ?? '[]') } catch { /* fresh start */ }
+  /**
+   * Reads what this browser kept (after hydration: the server's empty state would otherwise win)
+   * and keeps saving it. A selection given by the URL takes precedence over the kept one.
+   */
+  let restored = false
+  function restoreLocal () {
+    if (restored || !import.meta.client) return
+    restored = true
+    try {
+      ownPoints.value = JSON.parse(localStorage.getItem('crosspoint.compare.own') ?? '[]')
+      if (!recordIds.value.length) recordIds.value = JSON.parse(localStorage.getItem('crosspoint.compare.ids') ?? '[]')
+    } catch { /* nothing kept */ }
     watch(recordIds, v => localStorage.setItem('crosspoint.compare.ids', JSON.stringify(v)))
     watch(ownPoints, v => localStorage.setItem('crosspoint.compare.own', JSON.stringify(v)), { deep: true })
   }
-  return { recordIds, ownPoints, groupBy, params, showClassical, showTerms, add, remove, clear, query, fromQuery }
+  return { recordIds, ownPoints, groupBy, params, showClassical, showTerms, add, remove, clear, query, fromQuery, restoreLocal }
 })
