@@ -42,6 +42,13 @@ describe('compare', () => {
     expect(await p2.locator('[data-test=caption]').textContent()).toBe(caption)
     expect(await p2.locator('[data-test=rate-plot]').first().locator('svg circle').count()).toBe(await page.locator('[data-test=rate-plot]').first().locator('svg circle').count())
     await other.close()
+
+    // own points stay in this browser across reloads, and a shared link does not carry them
+    await page.fill('textarea[aria-label="Your points"]', '-0.85, 10.2, 0.1\n-1.1, 10.6')
+    await page.getByRole('button', { name: 'Add points' }).click()
+    await page.reload({ waitUntil: 'networkidle' })
+    await page.waitForFunction(() => document.body.textContent!.includes('2 point(s) of your own.'))
+    expect(page.url()).not.toContain('10.2')
     expect(errors).toEqual([])
     await page.close()
   })
