@@ -25,6 +25,8 @@ const rss = () => Number(readFileSync(`/proc/${proc.pid}/status`, 'utf8').match(
 const ids = (await (await fetch(`${url}/api/v1/records?pageSize=200`)).json() as { items: { id: number }[] }).items.map(i => i.id)
 const words = ['porphyrin', 'znp', 'benzonitril', 'viologen', 'acridinium', 'copper', 'imide', 'water']
 const rssStart = rss()
+const samples: number[] = []
+const sampler = setInterval(() => { try { samples.push(rss()) } catch { /* ended */ } }, 5000)
 let n = 0
 const mix = [
   () => ({ method: 'GET', path: `/api/v1/records?q=${words[n % words.length]}&pageSize=20` }),
@@ -41,12 +43,17 @@ const res = await autocannon({
 const codes = res.statusCodeStats as Record<string, { count: number }>
 const fiveXX = Object.entries(codes).filter(([c]) => c.startsWith('5')).reduce((s, [, v]) => s + v.count, 0)
 const rssEnd = rss()
+clearInterval(sampler)
 proc.kill('SIGTERM')
+const half = samples.slice(Math.floor(samples.length / 2))
 report('load.mixed.requests_per_second', res.requests.average, '1/s', 0)
 report('load.mixed.p50_ms', res.latency.p50, 'ms', 0)
 report('load.mixed.p99_ms', res.latency.p99, 'ms', 0)
 report('load.mixed.errors', fiveXX + res.errors + res.timeouts, 'count', 0)
 report('load.mixed.rss_start_mb', rssStart, 'MB', 0)
 report('load.mixed.rss_end_mb', rssEnd, 'MB', 0)
+// stable memory: how much the RSS still grew over the second half of the run
+report('load.mixed.rss_growth_second_half_mb', half.length > 1 ? Math.max(...half) - half[0]! : 0, 'MB', 0)
+process.stderr.write(`(RSS every 5 s: ${samples.map(x => x.toFixed(0)).join(' ')} MB)\n`)
 process.stderr.write(`(status codes: ${JSON.stringify(Object.fromEntries(Object.entries(codes).map(([k, v]) => [k, v.count])))})\n`)
 rmSync(dir, { recursive: true, force: true })

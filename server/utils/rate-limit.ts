@@ -39,4 +39,5 @@ export function recordFailure (email: string, ok: boolean): void {
   if (ok) { failures.delete(email); return }
   const f = failures.get(email)
   failures.set(email, { count: (f && Date.now() - f.last < 15 * 60e3 ? f.count : 0) + 1, last: Date.now() })
+  if (failures.size > 50_000) for (const [k, v] of failures) if (Date.now() - v.last > 15 * 60e3) failures.delete(k)
 }
