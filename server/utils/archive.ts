@@ -81,45 +81,9 @@ export async function versionRecords (versionId: number, limit = 100_000) {
     .from(records).where(eq(records.versionId, versionId)).orderBy(records.position).limit(limit)
 }
 
-export interface RecordFilters {
-  q?: string
-  process?: string
-  solvent?: string
-  technique?: string
-  linkage?: string
-  labId?: number
-  deltaGMin?: number
-  deltaGMax?: number
-  temperatureMin?: number
-  temperatureMax?: number
-  distanceMin?: number
-  distanceMax?: number
-  log10RateMin?: number
-  log10RateMax?: number
-  page: number
-  pageSize: number
-  sort?: string
-}
-
-export function recordWhere (f: RecordFilters): SQL | undefined {
-  const like = (col: SQL | typeof records.donorName, q: string) => sql`lower(${col}) like ${'%' + q.toLowerCase() + '%'}`
-  return and(
-    sql`${records.versionId} in ${currentPublishedVersionIds()}`,
-    f.q ? or(like(records.donorName, f.q), like(records.acceptorName, f.q), like(records.bridgeName, f.q), like(records.solvent, f.q), like(versions.title, f.q)) : undefined,
-    f.process ? eq(records.process, f.process) : undefined,
-    f.solvent ? eq(records.solvent, f.solvent) : undefined,
-    f.technique ? eq(records.technique, f.technique) : undefined,
-    f.linkage ? eq(records.linkage, f.linkage) : undefined,
-    f.labId ? eq(datasets.labId, f.labId) : undefined,
-    f.deltaGMin !== undefined ? sql`${records.deltaG} >= ${f.deltaGMin}` : undefined,
-    f.deltaGMax !== undefined ? sql`${records.deltaG} <= ${f.deltaGMax}` : undefined,
-    f.temperatureMin !== undefined ? sql`${records.temperatureK} >= ${f.temperatureMin}` : undefined,
-    f.temperatureMax !== undefined ? sql`${records.temperatureK} <= ${f.temperatureMax}` : undefined,
-    f.distanceMin !== undefined ? sql`${records.distanceAngstrom} >= ${f.distanceMin}` : undefined,
-    f.distanceMax !== undefined ? sql`${records.distanceAngstrom} <= ${f.distanceMax}` : undefined,
-    f.log10RateMin !== undefined ? sql`${records.log10Rate} >= ${f.log10RateMin}` : undefined,
-    f.log10RateMax !== undefined ? sql`${records.log10Rate} <= ${f.log10RateMax}` : undefined
-  )
+/** Records of the newest published, out-of-embargo version of each dataset: what anyone may download. */
+export function publishedRecordsWhere (): SQL {
+  return sql`${records.versionId} in ${currentPublishedVersionIds()}`
 }
 
 export const RECORD_LIST_COLUMNS = {

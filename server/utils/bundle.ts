@@ -14,13 +14,13 @@ import { ZipArchive } from 'archiver'
 import { sendStream, setHeaders, type H3Event } from 'h3'
 import { and, asc, eq, gt, inArray, sql, type SQL } from 'drizzle-orm'
 import { useDb, schema } from './db'
-import { cff, dataciteJson, selectionCff, type CitableVersion } from './citation'
+import { cff, dataciteJson, selectionCff, toCitable, type CitableVersion } from './citation'
 import { publicUrl } from './mail'
 import { httpError } from './errors'
 import { clientAddress } from './rate-limit'
 import rateRecordSchema from '../../schemas/rate-record.v1.json'
 import datasetSchema from '../../schemas/dataset.v1.json'
-import type { DatasetMetadataV1, RateRecordV1 } from '../../shared/records/types'
+import type { RateRecordV1 } from '../../shared/records/types'
 
 const { rateRecords: records, datasetVersions: versions, datasets, labs } = schema
 const PAGE = 5000
@@ -160,10 +160,7 @@ export async function writeBundle (sel: Selection, out: NodeJS.WritableStream, s
     ? await db.select({ v: versions, conceptDoi: datasets.conceptDoi, labName: labs.name }).from(versions).innerJoin(datasets, eq(datasets.id, versions.datasetId)).innerJoin(labs, eq(labs.id, datasets.labId))
       .where(inArray(versions.datasetId, [...datasetIds]))
     : []
-  const cited: CitableVersion[] = vrows.filter(r => versionKeys.has(`${r.v.datasetId}:${r.v.versionNumber}`)).map(r => ({
-    datasetId: r.v.datasetId, versionNumber: r.v.versionNumber, title: r.v.title, description: r.v.description, metadata: r.v.metadata as unknown as DatasetMetadataV1,
-    license: r.v.license, doi: r.v.doi, conceptDoi: r.conceptDoi, publishedAt: r.v.publishedAt, labName: r.labName, landingUrl: publicUrl(`/datasets/${r.v.datasetId}?version=${r.v.versionNumber}`)
-  }))
+  const cited: CitableVersion[] = vrows.filter(r => versionKeys.has(`${r.v.datasetId}:${r.v.versionNumber}`)).map(r => toCitable(r.v, r.conceptDoi, r.labName))
   for (const c of cited) payload.push(await appendHashed(zip, `data/datasets/${c.datasetId}-v${c.versionNumber}.datacite.json`, [JSON.stringify(dataciteJson(c), null, 2)]))
   payload.push(await appendHashed(zip, 'data/schemas/rate-record.v1.json', [JSON.stringify({ ...rateRecordSchema, $id: publicUrl('/schemas/rate-record.v1.json') }, null, 2)]))
   payload.push(await appendHashed(zip, 'data/schemas/dataset.v1.json', [JSON.stringify({ ...datasetSchema, $id: publicUrl('/schemas/dataset.v1.json') }, null, 2)]))

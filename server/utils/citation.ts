@@ -7,6 +7,7 @@
  */
 import { stringify as toYaml } from 'yaml'
 import type { Creator, DatasetMetadataV1 } from '../../shared/records/types'
+import { publicUrl } from './mail'
 
 export interface CitableVersion {
   datasetId: number
@@ -23,6 +24,14 @@ export interface CitableVersion {
 }
 
 export const PUBLISHER = 'Crosspoint'
+
+/** A stored dataset version (plus its dataset's concept DOI and lab) in the shape every format takes. */
+export function toCitable (v: { datasetId: number, versionNumber: number, title: string, description: string, metadata: unknown, license: string, doi: string | null, publishedAt: Date | null }, conceptDoi: string | null, labName: string): CitableVersion {
+  return {
+    datasetId: v.datasetId, versionNumber: v.versionNumber, title: v.title, description: v.description, metadata: v.metadata as DatasetMetadataV1,
+    license: v.license, doi: v.doi, conceptDoi, publishedAt: v.publishedAt, labName, landingUrl: publicUrl(`/datasets/${v.datasetId}?version=${v.versionNumber}`)
+  }
+}
 export const CITATION_FORMATS = ['bibtex', 'ris', 'csl-json', 'datacite-json', 'cff'] as const
 export type CitationFormat = typeof CITATION_FORMATS[number]
 

@@ -4,9 +4,7 @@ import { httpError, MESSAGES } from './errors'
 import type { Viewer } from './auth'
 import { desc, eq } from 'drizzle-orm'
 import { useDb, schema } from './db'
-import { jsonLd, type CitableVersion } from './citation'
-import { publicUrl } from './mail'
-import type { DatasetMetadataV1 } from '../../shared/records/types'
+import { jsonLd, toCitable, type CitableVersion } from './citation'
 
 /** A published (or withdrawn) version in the shape the citation formats take. */
 export async function citableVersion (viewer: Viewer | null, id: number, versionNumber?: number): Promise<CitableVersion> {
@@ -14,10 +12,7 @@ export async function citableVersion (viewer: Viewer | null, id: number, version
   const citable = versions.filter(v => v.doi && (v.state === 'published' || v.state === 'withdrawn'))
   const v = versionNumber === undefined ? citable[citable.length - 1] : citable.find(x => x.versionNumber === versionNumber)
   if (!v) throw httpError(404, 'No published version to cite')
-  return {
-    datasetId: dataset.id, versionNumber: v.versionNumber, title: v.title, description: v.description, metadata: v.metadata as unknown as DatasetMetadataV1,
-    license: v.license, doi: v.doi, conceptDoi: dataset.conceptDoi, publishedAt: v.publishedAt, labName: lab.name, landingUrl: publicUrl(`/datasets/${dataset.id}?version=${v.versionNumber}`)
-  }
+  return toCitable(v, dataset.conceptDoi, lab.name)
 }
 
 /** The newest review's comments, for the lab that must answer them. */
@@ -53,7 +48,7 @@ export async function datasetView (viewer: Viewer | null, id: number, versionNum
     versions: versions.map(v => ({ versionNumber: v.versionNumber, state: v.state, doi: v.doi, publishedAt: v.publishedAt, recordCount: v.recordCount })),
     records: hideRecords ? [] : await versionRecords(version.id),
     review: isMember ? await reviewNotes(version.id) : null,
-    jsonLd: version.doi && (version.state === 'published') ? jsonLd({ datasetId: dataset.id, versionNumber: version.versionNumber, title: version.title, description: version.description, metadata: version.metadata as unknown as DatasetMetadataV1, license: version.license, doi: version.doi, conceptDoi: dataset.conceptDoi, publishedAt: version.publishedAt, labName: lab.name, landingUrl: publicUrl(`/datasets/${dataset.id}?version=${version.versionNumber}`) }) : null,
+    jsonLd: version.doi && version.state === 'published' ? jsonLd(toCitable(version, dataset.conceptDoi, lab.name)) : null,
     recordsHidden: hideRecords ? (version.state === 'withdrawn' ? 'withdrawn' : 'embargo') : null
   }
 }

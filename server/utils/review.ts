@@ -11,10 +11,9 @@ import { httpError, MESSAGES } from './errors'
 import { requireRole, type Viewer } from './auth'
 import { checkRecords } from './deposit/check'
 import { ingestContext, recordValidator } from './deposit/drafts'
-import { dataciteJson, type CitableVersion } from './citation'
+import { dataciteJson, toCitable } from './citation'
 import { ensureDoi, RegistrarError, registrarPrefix } from './registrar'
 import { publicUrl, sendMail } from './mail'
-import type { DatasetMetadataV1 } from '../../shared/records/types'
 import { afterDatasetChange } from './search'
 
 const { datasets, datasetVersions: versions, rateRecords: records, labs, reviews, recordComments, users, labMemberships, auditEvents } = schema
@@ -152,13 +151,6 @@ export async function returnVersion (viewer: Viewer, datasetId: number, b: { com
   return { state: 'returned' }
 }
 
-function citable (d: typeof datasets.$inferSelect, v: Version, labName: string, doi: string, conceptDoi: string, publishedAt: Date): CitableVersion {
-  return {
-    datasetId: d.id, versionNumber: v.versionNumber, title: v.title, description: v.description, metadata: v.metadata as unknown as DatasetMetadataV1,
-    license: v.license, doi, conceptDoi, publishedAt, labName, landingUrl: publicUrl(`/datasets/${d.id}?version=${v.versionNumber}`)
-  }
-}
-
 /** Identifiers are derived from the dataset and version numbers, so a retry reuses them. */
 export function identifiersFor (datasetId: number, versionNumber: number) {
   const concept = `${registrarPrefix()}/cp.${datasetId}`
@@ -174,7 +166,7 @@ export async function acceptVersion (viewer: Viewer, datasetId: number, b: { com
   const [lab] = await db.select().from(labs).where(eq(labs.id, dataset.labId))
   const ids = identifiersFor(datasetId, version.versionNumber)
   const now = new Date()
-  const cv = citable(dataset, version, lab!.name, ids.version, ids.concept, now)
+  const cv = toCitable({ ...version, doi: ids.version, publishedAt: now }, ids.concept, lab!.name)
   try {
     await ensureDoi(ids.concept, publicUrl(`/datasets/${datasetId}`), { ...dataciteJson({ ...cv, doi: ids.concept, conceptDoi: null }).data.attributes, doi: ids.concept })
     await ensureDoi(ids.version, cv.landingUrl, dataciteJson(cv).data.attributes)

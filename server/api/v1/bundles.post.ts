@@ -1,5 +1,5 @@
 import { and, sql } from 'drizzle-orm'
-import { recordWhere } from '../../utils/archive'
+import { publishedRecordsWhere } from '../../utils/archive'
 import { runSearch, useSearch } from '../../utils/search'
 import { MAX_BUNDLE_RECORDS, sendBundle } from '../../utils/bundle'
 import { schema } from '../../utils/db'
@@ -21,7 +21,7 @@ export default defineEventHandler(async (event) => {
   // Only current, published, out-of-embargo records, whoever asks: a bundle is for citing published data.
   // A query selects exactly what the search finds (same index, visitor's view).
   const ids = b.recordIds ?? runSearch(await useSearch(), { ...rest, labId: lab, page: 1, pageSize: MAX_BUNDLE_RECORDS + 1 }, null).ids.map(h => h.id)
-  const where = and(recordWhere({ page: 1, pageSize: 1 }), sql`${schema.rateRecords.id} in (select value from json_each(${JSON.stringify(ids)}))`)!
+  const where = and(publishedRecordsWhere(), sql`${schema.rateRecords.id} in (select value from json_each(${JSON.stringify(ids)}))`)!
   const description = b.recordIds ? `${b.recordIds.length} chosen records` : `search ${JSON.stringify(b.query)}`
   const qs = new URLSearchParams(Object.entries(b.query ?? {}).map(([k, v]) => [k, String(v)])).toString()
   return sendBundle(event, { where, description, source: publicUrl(`/explore${qs ? '?' + qs : ''}`) }, 'crosspoint-selection.zip')

@@ -1,6 +1,6 @@
 /** Drafts: who may change them, the solvent context, stored originals, and writing records in one transaction. */
 import { createHash, randomUUID } from 'node:crypto'
-import { join, resolve } from 'node:path'
+import { join } from 'node:path'
 import { and, desc, eq, inArray, sql } from 'drizzle-orm'
 import type { H3Event } from 'h3'
 import { useDb, schema } from '../db'
@@ -11,6 +11,7 @@ import rateRecordSchema from '../../../schemas/rate-record.v1.json'
 import { recordColumns, type RateRecordV1 } from '../../../shared/records/types'
 import type { IngestContext, SchemaValidator } from '../../../shared/records/ingest'
 import { afterDatasetChange } from '../search'
+import { dataDirectory } from '../fixity'
 
 async function touchVersion (versionId: number): Promise<void> {
   const db = await useDb()
@@ -44,19 +45,13 @@ export async function requireEditableDraft (event: H3Event, datasetId: number): 
   return { viewer, dataset, version }
 }
 
-function dataDir (): string {
-  let d = './data'
-  try { d = useRuntimeConfig().dataDir } catch { d = process.env.NUXT_DATA_DIR ?? d }
-  return resolve(process.cwd(), d)
-}
-
 /** Keeps an uploaded original under DATA_DIR with its sha256; the key is ours, never the file name. */
 export async function storeOriginal (versionId: number | null, uploadedBy: string, name: string, mediaType: string | undefined, buf: Uint8Array) {
   const sha256 = createHash('sha256').update(buf).digest('hex')
   const ext = (name.match(/\.(csv|tsv|txt|xlsx|json)$/i)?.[1] ?? 'bin').toLowerCase()
   const storageKey = `uploads/${versionId ?? 'none'}/${randomUUID()}.${ext}`
   const { mkdir, writeFile } = await import('node:fs/promises')
-  const path = join(dataDir(), storageKey)
+  const path = join(dataDirectory(), storageKey)
   await mkdir(join(path, '..'), { recursive: true })
   await writeFile(path, buf)
   const db = await useDb()
@@ -67,7 +62,7 @@ export async function storeOriginal (versionId: number | null, uploadedBy: strin
 export async function readOriginal (storageKey: string): Promise<Uint8Array> {
   if (!/^uploads\/[\w-]+\/[\w-]+\.\w+$/.test(storageKey)) throw httpError(400, 'Bad storage key')
   const { readFile } = await import('node:fs/promises')
-  return new Uint8Array(await readFile(join(dataDir(), storageKey)))
+  return new Uint8Array(await readFile(join(dataDirectory(), storageKey)))
 }
 
 /** Appends (or, with replace, swaps in) records of a draft version in one transaction; all or nothing. */
