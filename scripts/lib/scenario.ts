@@ -57,6 +57,26 @@ export const PEOPLE = [
   { email: 'rowan.tessaly@crosspoint.example', name: 'Rowan Tessaly', role: 'admin', lab: null, lead: false, orcid: null }
 ] as const
 
+/**
+ * SMILES of the demo species that are ordinary, well-defined molecules (written from memory; RDKit
+ * reads every one, see tests/unit/server/structures.test.ts). Labels such as "ZnP" or "Cu(I) site"
+ * stand for assemblies a record would not draw, and get none, as many real records would.
+ */
+export const DEMO_SMILES: Record<string, string> = {
+  triethylamine: 'CCN(CC)CC',
+  DABCO: 'C1CN2CCN1CC2',
+  'N,N-dimethylaniline': 'CN(C)c1ccccc1',
+  'tri-p-tolylamine': 'Cc1ccc(cc1)N(c1ccc(C)cc1)c1ccc(C)cc1',
+  'MV2+': 'C[n+]1ccc(cc1)-c1cc[n+](C)cc1',
+  'BV2+': 'C(c1ccccc1)[n+]1ccc(cc1)-c1cc[n+](Cc2ccccc2)cc1',
+  'Acr+': 'C[n+]1c2ccccc2cc2ccccc12',
+  mesityl: 'Cc1cc(C)cc(C)c1',
+  durene: 'Cc1cc(C)c(C)cc1C',
+  xylyl: 'Cc1ccc(C)cc1',
+  dimethoxynaphthalene: 'COc1ccc2cc(OC)ccc2c1',
+  dicyanovinyl: 'C=C(C#N)C#N'
+}
+
 interface Family {
   donors: string[]; acceptors: string[]; bridges?: string[]; classes: [string, string]
   linkage: Linkage; process: ProcessKind; initialState: 'singlet' | 'triplet' | 'thermal'
@@ -176,8 +196,8 @@ export function demoRecords (ds: DemoDataset, versionIndex: number): RateRecordV
     const bridge = f.bridges ? r.pick(f.bridges) : undefined
     const rec: RateRecordV1 = {
       system: {
-        donor: { name: donor, class: f.classes[0] },
-        acceptor: { name: acceptor, class: f.classes[1] },
+        donor: { name: donor, class: f.classes[0], ...(DEMO_SMILES[donor] ? { smiles: DEMO_SMILES[donor] } : {}) },
+        acceptor: { name: acceptor, class: f.classes[1], ...(DEMO_SMILES[acceptor] ? { smiles: DEMO_SMILES[acceptor] } : {}) },
         ...(bridge ? { bridge: { name: bridge } } : {}),
         linkage: f.linkage
       },

@@ -226,6 +226,25 @@ export const mailOutbox = sqliteTable('mail_outbox', {
   ...timestamps
 }, t => [index('mail_outbox_created_idx').on(t.createdAt)])
 
+/**
+ * Chemical structures computed once per distinct SMILES (as written in records) by RDKit: canonical
+ * SMILES, standard InChI and InChIKey, an SVG depiction and the Morgan fingerprint used for
+ * similarity. A SMILES RDKit cannot read keeps its error message instead.
+ */
+export const structures = sqliteTable('structure', {
+  id: integer('id').primaryKey({ autoIncrement: true }),
+  smiles: text('smiles').notNull(),
+  canonicalSmiles: text('canonical_smiles'),
+  inchi: text('inchi'),
+  inchiKey: text('inchi_key'),
+  svg: text('svg'),
+  /** Morgan fingerprint (radius 2, 2048 bits) as 512 hex digits, bit 0 first. */
+  morganFp: text('morgan_fp'),
+  error: text('error'),
+  toolkit: text('toolkit').notNull(),
+  ...timestamps
+}, t => [uniqueIndex('structure_smiles_unique').on(t.smiles), index('structure_inchi_key_idx').on(t.inchiKey)])
+
 // ── relations ───────────────────────────────────────────────────────────────────────────
 export const labRelations = relations(labs, ({ many }) => ({ memberships: many(labMemberships), datasets: many(datasets) }))
 export const membershipRelations = relations(labMemberships, ({ one }) => ({

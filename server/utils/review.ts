@@ -60,7 +60,7 @@ export async function reviewQueue (viewer: Viewer, f: { lab?: number, q?: string
   for (const r of rows) {
     const recs = await db.select({ data: records.data }).from(records).innerJoin(versions, eq(versions.id, records.versionId))
       .where(and(eq(versions.datasetId, r.datasetId), eq(versions.versionNumber, r.versionNumber)))
-    const check = checkRecords(recs.map(x => x.data), validate, ctx, '/records')
+    const check = await checkRecords(recs.map(x => x.data), validate, ctx, '/records')
     out.push({ ...r, ownLab: viewer.labIds.includes(r.labId), warnings: check.warningCount, problems: check.issueCount, ageDays: r.submittedAt ? Math.floor((Date.now() - r.submittedAt.getTime()) / 86400e3) : null })
   }
   return out
@@ -90,7 +90,7 @@ export async function reviewView (viewer: Viewer, datasetId: number) {
   const { dataset, version } = await submittedFor(viewer, datasetId, { allowOwnLab: true })
   const [lab] = await db.select().from(labs).where(eq(labs.id, dataset.labId))
   const recs = await db.select().from(records).where(eq(records.versionId, version.id)).orderBy(records.position)
-  const report = checkRecords(recs.map(r => r.data), recordValidator(), await ingestContext(), '/records')
+  const report = await checkRecords(recs.map(r => r.data), recordValidator(), await ingestContext(), '/records')
   const [prev] = await db.select().from(versions).where(and(eq(versions.datasetId, datasetId), eq(versions.state, 'published'), ne(versions.id, version.id))).orderBy(desc(versions.versionNumber)).limit(1)
   const prevRecs = prev ? await db.select().from(records).where(eq(records.versionId, prev.id)) : []
   const history = await db.select({ id: reviews.id, decision: reviews.decision, comment: reviews.comment, createdAt: reviews.createdAt, snapshot: reviews.snapshot, curator: users.name })
@@ -161,7 +161,7 @@ export async function acceptVersion (viewer: Viewer, datasetId: number, b: { com
   const { dataset, version } = await submittedFor(viewer, datasetId)
   if (version.state !== 'submitted') throw httpError(409, 'Another curator acted on this submission, or it changed since you opened it; reload to see its current state')
   const db = await useDb()
-  const problems = checkRecords((await db.select({ data: records.data }).from(records).where(eq(records.versionId, version.id))).map(r => r.data), recordValidator(), await ingestContext(), '/records')
+  const problems = await checkRecords((await db.select({ data: records.data }).from(records).where(eq(records.versionId, version.id))).map(r => r.data), recordValidator(), await ingestContext(), '/records')
   if (problems.issueCount) throw httpError(422, `The submission has ${problems.issueCount} problem(s); return it instead`, problems.issues)
   const [lab] = await db.select().from(labs).where(eq(labs.id, dataset.labId))
   const ids = identifiersFor(datasetId, version.versionNumber)

@@ -1,6 +1,6 @@
 import { and, sql } from 'drizzle-orm'
 import { publishedRecordsWhere } from '../../utils/archive'
-import { runSearch, useSearch } from '../../utils/search'
+import { runSearch } from '../../utils/search'
 import { MAX_BUNDLE_RECORDS, sendBundle } from '../../utils/bundle'
 import { schema } from '../../utils/db'
 import { publicUrl } from '../../utils/mail'
@@ -20,7 +20,7 @@ export default defineEventHandler(async (event) => {
   const { lab, ...rest } = (b.query ?? {}) as Record<string, never>
   // Only current, published, out-of-embargo records, whoever asks: a bundle is for citing published data.
   // A query selects exactly what the search finds (same index, visitor's view).
-  const ids = b.recordIds ?? runSearch(await useSearch(), { ...rest, labId: lab, page: 1, pageSize: MAX_BUNDLE_RECORDS + 1 }, null).ids.map(h => h.id)
+  const ids = b.recordIds ?? (await runSearch({ ...rest, labId: lab, page: 1, pageSize: MAX_BUNDLE_RECORDS + 1 }, null)).ids.map(h => h.id)
   const where = and(publishedRecordsWhere(), sql`${schema.rateRecords.id} in (select value from json_each(${JSON.stringify(ids)}))`)!
   const description = b.recordIds ? `${b.recordIds.length} chosen records` : `search ${JSON.stringify(b.query)}`
   const qs = new URLSearchParams(Object.entries(b.query ?? {}).map(([k, v]) => [k, String(v)])).toString()

@@ -3,6 +3,7 @@ import { COLUMN_BY_KEY, COLUMNS, parseHeader } from '../../../shared/records/col
 import { ingestRow, validateRecord, type Cell, type IngestContext, type RowIssue, type SchemaValidator } from '../../../shared/records/ingest'
 import type { RateRecordV1 } from '../../../shared/records/types'
 import { FileProblem, MAX_ROWS, detectKind, parseCsv, parseJsonRecords, parseXlsx, type Table } from './parse'
+import { structureIssues } from '../structures'
 
 export interface CheckResult {
   kind: 'csv' | 'xlsx' | 'json'
@@ -41,10 +42,31 @@ function checkHeaders (headers: string[]): { keys: (string | null)[], units: Rec
   return { keys, units }
 }
 
-function checkTable (t: Table, validate: SchemaValidator, ctx: IngestContext, onProgress?: (done: number) => void): Omit<CheckResult, 'kind'> {
+type Checked = Omit<CheckResult, 'kind'> & { origins: { path: string, row?: number }[] }
+
+/**
+ * SMILES go through RDKit (server side only, so after the shared row rules): a SMILES it cannot
+ * read is an error at its row and column and the record is left out; a given InChIKey that
+ * disagrees with the structure is a warning.
+ */
+async function withStructures ({ origins, ...res }: Checked): Promise<Omit<CheckResult, 'kind'>> {
+  const { errors, warnings } = await structureIssues(res.records, i => origins[i]!)
+  if (!errors.length && !warnings.length) return res
+  const bad = new Set(errors.map(e => e.path.replace(/\/system\/.*$/, '') + '|' + (e.row ?? '')))
+  const keep = res.records.filter((_, i) => !bad.has(`${origins[i]!.path}|${origins[i]!.row ?? ''}`))
+  const byRow = (a: RowIssue, b: RowIssue) => (a.row ?? 0) - (b.row ?? 0)
+  return {
+    ...res, records: keep,
+    issues: [...res.issues, ...errors].sort(byRow).slice(0, MAX_LISTED), issueCount: res.issueCount + errors.length,
+    warnings: [...res.warnings, ...warnings].sort(byRow).slice(0, MAX_LISTED), warningCount: res.warningCount + warnings.length
+  }
+}
+
+function checkTable (t: Table, validate: SchemaValidator, ctx: IngestContext, onProgress?: (done: number) => void): Checked {
   if (t.rows.length > MAX_ROWS) throw new FileProblem(413, `Too many rows: ${t.rows.length} (at most ${MAX_ROWS} per upload)`, [{ path: '/file', message: 'too many rows' }])
   const { keys, units } = checkHeaders(t.headers)
   const records: RateRecordV1[] = []
+  const origins: Checked['origins'] = []
   const issues: RowIssue[] = []; const warnings: RowIssue[] = []
   let issueCount = 0; let warningCount = 0; let derivedCount = 0
   for (let r = 0; r < t.rows.length; r++) {
@@ -59,10 +81,10 @@ function checkTable (t: Table, validate: SchemaValidator, ctx: IngestContext, on
     derivedCount += res.derived.length
     for (const i of res.issues) { issueCount++; if (issues.length < MAX_LISTED) issues.push({ ...i, row: r + 2 }) }
     for (const w of res.warnings) { warningCount++; if (warnings.length < MAX_LISTED) warnings.push({ ...w, row: r + 2 }) }
-    if (res.record) records.push(res.record)
+    if (res.record) { records.push(res.record); origins.push({ path: '', row: r + 2 }) }
     if (onProgress && r % 5000 === 0) onProgress(r)
   }
-  return { rowCount: t.rows.length, records, issues, issueCount, warnings, warningCount, derivedCount }
+  return { rowCount: t.rows.length, records, origins, issues, issueCount, warnings, warningCount, derivedCount }
 }
 
 /** Checks a whole file; throws FileProblem for problems with the file itself. */
@@ -71,22 +93,23 @@ export async function checkFile (name: string, mediaType: string | undefined, bu
   if (kind === 'json') {
     const recs = parseJsonRecords(buf)
     if (recs.length > MAX_ROWS) throw new FileProblem(413, `Too many records: ${recs.length} (at most ${MAX_ROWS} per upload)`, [{ path: '/records', message: 'too many records' }])
-    return { kind, ...checkRecords(recs, validate, ctx, '/records') }
+    return { kind, ...await checkRecords(recs, validate, ctx, '/records') }
   }
   const table = kind === 'csv' ? parseCsv(buf) : await parseXlsx(buf)
-  return { kind, ...checkTable(table, validate, ctx) }
+  return { kind, ...await withStructures(checkTable(table, validate, ctx)) }
 }
 
 /** Canonical records (JSON upload or the API): schema + shared rules, issues addressed by pointer and index. */
-export function checkRecords (recs: unknown[], validate: SchemaValidator, ctx: IngestContext, base: string): Omit<CheckResult, 'kind'> {
+export async function checkRecords (recs: unknown[], validate: SchemaValidator, ctx: IngestContext, base: string): Promise<Omit<CheckResult, 'kind'>> {
   const records: RateRecordV1[] = []
+  const origins: Checked['origins'] = []
   const issues: RowIssue[] = []; const warnings: RowIssue[] = []
   let issueCount = 0; let warningCount = 0
   recs.forEach((rec, i) => {
     const v = validateRecord(rec, validate, ctx)
     for (const x of v.issues) { issueCount++; if (issues.length < MAX_LISTED) issues.push({ ...x, row: i + 1, path: `${base}/${i}${x.path === '/' ? '' : x.path}` }) }
     for (const w of v.warnings) { warningCount++; if (warnings.length < MAX_LISTED) warnings.push({ ...w, row: i + 1, path: `${base}/${i}${w.path}` }) }
-    if (!v.issues.length) records.push(rec as RateRecordV1)
+    if (!v.issues.length) { records.push(rec as RateRecordV1); origins.push({ path: `${base}/${i}`, row: i + 1 }) }
   })
-  return { rowCount: recs.length, records, issues, issueCount, warnings, warningCount, derivedCount: 0 }
+  return withStructures({ rowCount: recs.length, records, origins, issues, issueCount, warnings, warningCount, derivedCount: 0 })
 }

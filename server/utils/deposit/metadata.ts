@@ -72,7 +72,7 @@ export async function submissionProblems (version: Version): Promise<Issue[]> {
   const db = await useDb()
   const rows = await db.select({ data: schema.rateRecords.data, position: schema.rateRecords.position }).from(schema.rateRecords).where(eq(schema.rateRecords.versionId, version.id)).orderBy(schema.rateRecords.position)
   if (!rows.length) issues.push({ path: '/records', message: 'A dataset needs at least one record' })
-  const res = checkRecords(rows.map(r => r.data), recordValidator(), await ingestContext(), '/records')
+  const res = await checkRecords(rows.map(r => r.data), recordValidator(), await ingestContext(), '/records')
   issues.push(...res.issues)
   return issues
 }

@@ -11,7 +11,7 @@ export default defineEventHandler(async (event) => {
   const recordId = intParam(event, 'recordId')
   const { record } = await readValidated<{ record: unknown }>(event, { type: 'object', required: ['record'], additionalProperties: false, properties: { record: { type: 'object' } } })
   const { version } = await requireEditableDraft(event, id)
-  const res = checkRecords([record], recordValidator(), await ingestContext(), '/record')
+  const res = await checkRecords([record], recordValidator(), await ingestContext(), '/record')
   if (res.issueCount) throw httpError(422, 'The record has problems; it was not changed', res.issues.map(i => ({ ...i, path: i.path.replace(/^\/record\/0/, '/record') })))
   await replaceRecord(version.id, recordId, res.records[0]!)
   return { id: recordId, warnings: res.warnings }
