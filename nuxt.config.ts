@@ -55,6 +55,9 @@ export default defineNuxtConfig({
         // Migrations travel with the built server so that it can migrate from any working directory.
         const from = resolve(nitro.options.rootDir, 'drizzle')
         if (existsSync(from)) cpSync(from, resolve(nitro.options.output.serverDir, 'drizzle'), { recursive: true })
+        // RDKit's WebAssembly file is read at run time, so the output tracer does not see it.
+        const wasm = resolve(nitro.options.rootDir, 'node_modules/@rdkit/rdkit/dist/RDKit_minimal.wasm')
+        if (existsSync(wasm)) cpSync(wasm, resolve(nitro.options.output.serverDir, 'node_modules/@rdkit/rdkit/dist/RDKit_minimal.wasm'))
         copyModuleSyncEntries(resolve(nitro.options.rootDir, 'node_modules'), resolve(nitro.options.output.serverDir, 'node_modules'))
       }
     }

@@ -132,7 +132,6 @@ export class RecordIndex {
       this.valueKey.set(key, v); this.valueText.push(text); this.valueField.push(field); this.postings.push([])
       const own = this.fieldValues[field]
       this.valueLocal.push(own ? own.push(v) - 1 : -1)
-      if (field < TEXT_FIELDS.length) this.pendingText.push({ id: v, [TEXT_FIELDS[field]!]: text })
     }
     return v
   }
@@ -153,7 +152,12 @@ export class RecordIndex {
         const v = t ? this.valueId(f, t) : -1
         this.textCol[f]![slot] = v
         this.facetCol[f]![slot] = v >= 0 ? this.valueLocal[v]! + 1 : 0
-        if (v >= 0) this.postings[v]!.push(slot)
+        if (v >= 0) {
+          const list = this.postings[v]!
+          // a value enters the text index with its first record (again, after its last one left)
+          if (!list.length) this.pendingText.push({ id: v, [TEXT_FIELDS[f]!]: t })
+          list.push(slot)
+        }
       }
       const sm = [d.donorSmiles, d.acceptorSmiles]
       for (let i = 0; i < 2; i++) this.smilesCol[i]![slot] = sm[i] ? this.valueId(TEXT_FIELDS.length + i, sm[i]!) : -1

@@ -11,8 +11,6 @@ import { RecordIndex, type SearchAnswer, type SearchDoc, type SearchQuery } from
 import { fingerprintsFor } from './structures'
 import type { RateRecordV1 } from '../../shared/records/types'
 
-export type { SearchDoc, SearchQuery } from './search-index'
-export { SIMILARITY_WEIGHTS } from './search-index'
 
 interface State { index: RecordIndex, lastSync: number }
 let state: Promise<State> | undefined

@@ -74,10 +74,49 @@ describe('similar systems', () => {
       expect(i.record.id).not.toBe(first.id)
       const sum = i.why.reduce((a: number, w: any) => a + w.contribution, 0)
       expect(sum).toBeCloseTo(i.score, 2)
-      expect(i.why.map((w: any) => w.feature)).toEqual(expect.arrayContaining(['deltaG', 'temperature', 'process', 'linkage', 'names']))
+      // both records give donor and acceptor SMILES (demo data), so structures are compared, not names
+      expect(i.why.map((w: any) => w.feature)).toEqual(expect.arrayContaining(['deltaG', 'temperature', 'process', 'linkage', 'structure']))
+      expect(i.why.map((w: any) => w.feature)).not.toContain('names')
     }
     // the nearest systems of a record in a temperature series are its own series
     expect(r.data.items[0].record.donorName).toBe('dimethoxynaphthalene')
+    expect(r.data.items[0].why.find((w: any) => w.feature === 'structure').closeness).toBe(1)
     expect((await api(s.url, '/api/v1/records/999999/similar')).status).toBe(404)
+  })
+  it('falls back to name resemblance where a record has no structures, and says so', async () => {
+    const first = (await search('q=porphyrin&pageSize=1')).items[0]
+    const r = await api(s.url, `/api/v1/records/${first.id}/similar?limit=3`)
+    for (const i of r.data.items) expect(i.why.find((w: any) => w.feature === 'names').detail).toMatch(/no structures/)
+  })
+})
+
+describe('structures', () => {
+  it('a record with SMILES carries canonical SMILES, InChIKey and a depiction, computed by RDKit and cached', async () => {
+    const hit = (await search('q=triethylamine&pageSize=1')).items[0]
+    const r = (await api(s.url, `/api/v1/records/${hit.id}`)).data
+    // InChIKey of triethylamine as listed in PubChem (from memory)
+    expect(r.structures.donor).toMatchObject({ smiles: 'CCN(CC)CC', canonicalSmiles: 'CCN(CC)CC', inchiKey: 'ZMANZCXQSJIPKH-UHFFFAOYSA-N', error: null })
+    expect(Buffer.from(r.structures.donor.depiction.replace(/^data:image\/svg\+xml;base64,/, ''), 'base64').toString()).toMatch(/<svg[\s\S]*<\/svg>/)
+    expect(r.structures.acceptor).toBeUndefined() // the iridium complexes carry no SMILES in the demo
+  })
+  it('a SMILES RDKit cannot read is an error at its row and column, and nothing is kept', async () => {
+    const b = await signIn(s.url, DEMO.contributorB)
+    const labB = (await api(s.url, '/api/v1/me', { headers: { cookie: b } })).data.user.labIds[0]
+    const id = (await api(s.url, '/api/v1/datasets', { method: 'POST', headers: { cookie: b }, json: { labId: labB, title: 'SMILES probe' } })).data.id
+    const csv = readFileSync(join(ROOT, 'tests/fixtures/deposit/good.csv'), 'utf8').split(/\r?\n/).filter(Boolean)
+    const header = csv[0]!.split(',')
+    const rows = csv.slice(1).map(l => l.split(','))
+    const withSmiles = [[...header, 'donor_smiles'].join(','), ...rows.map((r, i) => [...r, i === 1 ? 'C1CC(' : 'CCO'].join(','))].join('\n')
+    const form = new FormData()
+    form.append('file', new Blob([withSmiles]), 'smiles.csv')
+    const up = await (await fetch(`${s.url}/api/v1/datasets/${id}/uploads/check`, { method: 'POST', body: form, headers: { cookie: b } })).json() as any
+    expect(up.upload).toBeNull()
+    expect(up.issues).toEqual([expect.objectContaining({ row: 3, column: 'donor_smiles', path: '/system/donor/smiles', message: expect.stringMatching(/^donor SMILES "C1CC\(" is not a valid structure/) })])
+    expect(up.acceptedCount).toBe(rows.length - 1)
+    const good = (await api(s.url, `/api/v1/records/${(await search('q=triethylamine&pageSize=1')).items[0].id}`)).data.data
+    const bad = await api(s.url, `/api/v1/datasets/${id}/records`, { method: 'POST', headers: { cookie: b }, json: { records: [good, { ...good, system: { ...good.system, acceptor: { name: 'x', smiles: 'not a smiles' } } }] } })
+    expect(bad.status).toBe(422)
+    expect(bad.data.data.issues).toEqual([expect.objectContaining({ path: '/records/1/system/acceptor/smiles', message: expect.stringMatching(/acceptor SMILES "not a smiles" is not a valid structure/) })])
+    expect((await search('q=smiles probe', b)).total).toBe(0) // neither request wrote a record
   })
 })

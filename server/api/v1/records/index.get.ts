@@ -1,6 +1,7 @@
 import { getViewer } from '../../../utils/auth'
 import { pagedRecords } from '../../../utils/archive'
-import { cachedSearch, type SearchQuery } from '../../../utils/search'
+import { cachedSearch } from '../../../utils/search'
+import type { SearchQuery } from '../../../utils/search-index'
 import { coerceNumbers, queryValidated } from '../../../utils/validation'
 import { pagingProperties } from '../../../utils/params'
 

@@ -1,0 +1,91 @@
+import { describe, expect, it } from 'vitest'
+import { RecordIndex, tanimoto, topK, type SearchDoc } from '../../../server/utils/search-index'
+
+const base: Omit<SearchDoc, 'id'> = {
+  datasetId: 1, labId: 1, visibility: 'public', donor: 'zinc porphyrin', acceptor: 'C60', bridge: '', classes: 'porphyrin fullerene', solvent: 'toluene',
+  technique: 'transient-absorption', process: 'charge-separation', linkage: 'covalent', notes: '', datasetTitle: 'Dyads', lab: 'Lab A', keywords: '',
+  year: 2025, deltaG: -0.8, temperatureK: 298.15, distance: 12, log10Rate: 9, pekar: 0.2
+}
+const doc = (id: number, over: Partial<SearchDoc> = {}): SearchDoc => ({ ...base, id, ...over })
+
+function fixture () {
+  const ix = new RecordIndex()
+  ix.add([
+    doc(1), doc(2, { solvent: 'benzonitrile', deltaG: -1.2 }), doc(3, { donor: 'triethylamine', acceptor: 'Ir(ppy)3', classes: 'amine iridium complex', linkage: 'bimolecular', deltaG: null }),
+    doc(4, { visibility: 'draft', labId: 2, datasetId: 2, donor: 'zinc porphyrin draft', notes: 'secret probe' }),
+    doc(5, { solvent: 'water', technique: 'tcspc', deltaG: -0.3, distance: null, year: 2023, lab: 'Lab B', labId: 3, datasetId: 3 })
+  ])
+  return ix
+}
+const ids = (r: { ids: { id: number }[] }) => r.ids.map(x => x.id)
+
+describe('RecordIndex search', () => {
+  it('matches typos, prefixes and AND across fields, and hides drafts from other labs', () => {
+    const ix = fixture()
+    expect(ids(ix.search({ q: 'porphirin', page: 1, pageSize: 10 }, null)).sort()).toEqual([1, 2, 5])
+    expect(ids(ix.search({ q: 'triethyl', page: 1, pageSize: 10 }, null))).toEqual([3])
+    expect(ids(ix.search({ q: 'porphyrin benzonitrile', page: 1, pageSize: 10 }, null))).toEqual([2])
+    expect(ix.search({ q: 'secret', page: 1, pageSize: 10 }, null).total).toBe(0)
+    expect(ix.search({ q: 'secret', page: 1, pageSize: 10 }, { labIds: [1] }).total).toBe(0)
+    expect(ids(ix.search({ q: 'secret', page: 1, pageSize: 10 }, { labIds: [2] }))).toEqual([4])
+  })
+  it('filters by facet values and ranges; a record without a value is outside any range', () => {
+    const ix = fixture()
+    expect(ids(ix.search({ deltaGMin: -1, deltaGMax: -0.5, page: 1, pageSize: 10 }, null))).toEqual([1])
+    expect(ids(ix.search({ distanceMin: 0, page: 1, pageSize: 10 }, null))).toEqual([1, 2, 3])
+    expect(ids(ix.search({ solvent: 'water', page: 1, pageSize: 10 }, null))).toEqual([5])
+    expect(ix.search({ solvent: 'no such solvent', page: 1, pageSize: 10 }, null).total).toBe(0)
+    expect(ids(ix.search({ yearMax: 2024, page: 1, pageSize: 10 }, null))).toEqual([5])
+    expect(ids(ix.search({ labId: 3, page: 1, pageSize: 10 }, null))).toEqual([5])
+  })
+  it('counts facets and ranges over the hits only', () => {
+    const r = fixture().search({ page: 1, pageSize: 1 }, null)
+    expect(r.total).toBe(4)
+    expect(r.facets.solvent).toEqual({ toluene: 2, benzonitrile: 1, water: 1 })
+    expect(r.facets.linkage).toEqual({ covalent: 3, bimolecular: 1 })
+    expect(r.facets.year).toEqual({ 2023: 1, 2025: 3 })
+    expect(r.ranges.deltaG).toEqual({ min: -1.2, max: -0.3 })
+    expect(r.ranges.distance).toEqual({ min: 12, max: 12 })
+  })
+  it('sorts, pages, and takes records out when their dataset is re-read', () => {
+    const ix = fixture()
+    expect(ids(ix.search({ sort: 'deltaG', page: 1, pageSize: 10 }, null))).toEqual([2, 1, 5, 3]) // no value last
+    expect(ids(ix.search({ sort: '-deltaG', page: 2, pageSize: 2 }, null))).toEqual([2, 3])
+    ix.removeDatasets([1])
+    expect(ids(ix.search({ page: 1, pageSize: 10 }, null))).toEqual([5])
+    expect(ix.search({ q: 'triethylamine', page: 1, pageSize: 10 }, null).total).toBe(0)
+    ix.add([doc(7, { donor: 'triethylamine' })])
+    expect(ids(ix.search({ q: 'triethylamine', page: 1, pageSize: 10 }, null))).toEqual([7])
+  })
+})
+
+describe('similarity and helpers', () => {
+  it('topK returns the same first k as a full sort (fast-check style table of sizes)', () => {
+    for (const n of [0, 1, 7, 100, 1000]) {
+      const xs = Array.from({ length: n }, (_, i) => (i * 7919) % 1013)
+      for (const k of [1, 5, 50]) expect(topK(xs, k, (a, b) => a - b)).toEqual([...xs].sort((a, b) => a - b).slice(0, k))
+    }
+  })
+  it('Tanimoto is |A∩B|/|A∪B| (definition; checked against a set computation)', () => {
+    const bits = (on: number[]) => { const w = new Uint32Array(64); for (const b of on) w[b >> 5]! |= 1 << (b & 31); return w }
+    const a = [1, 5, 31, 32, 63, 2047]; const b = [5, 31, 100, 2047]
+    const inter = a.filter(x => b.includes(x)).length; const union = new Set([...a, ...b]).size
+    expect(tanimoto(bits(a), bits(b))).toBeCloseTo(inter / union, 12)
+    expect(tanimoto(bits(a), bits(a))).toBe(1)
+    expect(tanimoto(bits([0]), bits([1]))).toBe(0)
+  })
+  it('ranks by the documented score, uses structures where both records have them, and explains it', () => {
+    const ix = fixture()
+    const fp = (on: number[]) => { const w = new Uint32Array(64); for (const b of on) w[b >> 5]! |= 1 << (b & 31); return w }
+    ix.add([doc(10, { donor: 'TEA', acceptor: 'benzene', classes: 'amine arene', donorSmiles: 'CCN(CC)CC', acceptorSmiles: 'c1ccccc1' }), doc(11, { donor: 'Et3N', acceptor: 'toluene', classes: 'amine arene', donorSmiles: 'CCN(CC)CC', acceptorSmiles: 'Cc1ccccc1' })])
+    ix.setFingerprint('CCN(CC)CC', fp([1, 2, 3])); ix.setFingerprint('c1ccccc1', fp([10, 11])); ix.setFingerprint('Cc1ccccc1', fp([10, 11, 12, 13]))
+    const hits = ix.similar(10, null, 3)!
+    expect(hits[0]!.id).toBe(11)
+    const st = hits[0]!.why.find(w => w.feature === 'structure')!
+    expect(st.closeness).toBeCloseTo((1 + 0.5) / 2, 3) // donor identical, acceptor 2 of 4 bits shared
+    for (const h of hits) expect(h.why.reduce((s, w) => s + w.contribution, 0)).toBeCloseTo(h.score, 2)
+    // without structures on one side, names stand in
+    expect(ix.similar(1, null, 5)!.every(h => h.why.some(w => w.feature === 'names'))).toBe(true)
+    expect(ix.similar(999, null, 5)).toBeNull()
+  })
+})
