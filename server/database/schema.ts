@@ -148,6 +148,10 @@ export const rateRecords = sqliteTable('rate_record', {
   log10Rate: real('log10_rate').notNull(),
   /** Driving force ΔG°, eV. */
   deltaG: real('delta_g'),
+  /** The record's row of a bundle's records.csv (see shared/records/csv.ts), kept so bundles need not parse the JSON. */
+  csvLine: text('csv_line'),
+  /** CSV_FORMAT the line was made with; other formats are recomputed before use. */
+  csvFormat: integer('csv_format'),
   isDemo: integer('is_demo', { mode: 'boolean' }).notNull().default(false),
   ...timestamps
 }, t => [

@@ -1,67 +1,27 @@
 /**
  * Citable, checksummed bundles: a ZIP in BagIt 1.0 layout (RFC 8493), streamed with archiver.
- * Records are read from the database in pages and hashed as they stream; the manifests are
+ * Records are read from the database in pages (their CSV lines stored beside them, their JSON as
+ * stored) and hashed as they stream; the manifests are
  * written last, when every payload file's sha256 and size are known. A client that disconnects
  * stops the work.
  */
 import { createHash } from 'node:crypto'
-import { createReadStream, createWriteStream } from 'node:fs'
-import { mkdtemp, rm } from 'node:fs/promises'
-import { tmpdir } from 'node:os'
-import { join } from 'node:path'
 import { PassThrough, Readable } from 'node:stream'
 import { ZipArchive } from 'archiver'
 import { sendStream, setHeaders, type H3Event } from 'h3'
-import { and, asc, eq, gt, inArray, sql, type SQL } from 'drizzle-orm'
+import { eq, inArray, sql, type SQL } from 'drizzle-orm'
 import { useDb, schema } from './db'
 import { cff, dataciteJson, selectionCff, toCitable, type CitableVersion } from './citation'
 import { publicUrl } from './mail'
 import { httpError } from './errors'
 import { clientAddress } from './rate-limit'
+import { CSV_FORMAT, CSV_HEADER, csvLine, recordCsvLine } from '../../shared/records/csv'
 import rateRecordSchema from '../../schemas/rate-record.v1.json'
 import datasetSchema from '../../schemas/dataset.v1.json'
 import type { RateRecordV1 } from '../../shared/records/types'
 
 const { rateRecords: records, datasetVersions: versions, datasets, labs } = schema
 const PAGE = 5000
-
-export const CSV_COLUMNS: [string, string, (r: RateRecordV1) => unknown][] = [
-  ['donor_name', '', r => r.system.donor.name], ['donor_class', '', r => r.system.donor.class], ['donor_smiles', '', r => r.system.donor.smiles],
-  ['acceptor_name', '', r => r.system.acceptor.name], ['acceptor_class', '', r => r.system.acceptor.class], ['acceptor_smiles', '', r => r.system.acceptor.smiles],
-  ['bridge_name', '', r => r.system.bridge?.name], ['linkage', '', r => r.system.linkage], ['process', '', r => r.process], ['initial_state', '', r => r.initialState],
-  ['solvent', '', r => r.medium.solvent], ['matrix', '', r => r.medium.matrix], ['permittivity', '', r => r.medium.permittivity], ['refractive_index', '', r => r.medium.refractiveIndex],
-  ['temperature', 'K', r => r.temperatureK], ['distance_cc', 'angstrom', r => r.geometry?.centerToCenterAngstrom], ['distance_ee', 'angstrom', r => r.geometry?.edgeToEdgeAngstrom],
-  ['rate', 's-1 or M-1 s-1', r => r.rate.value], ['rate_uncertainty', 'same as rate', r => r.rate.uncertainty], ['rate_kind', '', r => r.rate.kind], ['rate_method', '', r => r.rate.method],
-  ['lifetime', 's', r => r.rate.lifetimeS], ['reference_lifetime', 's', r => r.rate.referenceLifetimeS],
-  ['rate_as_reported', '', r => r.rate.original ? `${r.rate.original.value} ${r.rate.original.unit}` : undefined],
-  ['delta_g', 'eV', r => r.drivingForce?.value], ['delta_g_uncertainty', 'eV', r => r.drivingForce?.uncertainty], ['delta_g_method', '', r => r.drivingForce?.method],
-  ['delta_g_as_reported', '', r => r.drivingForce?.original ? `${r.drivingForce.original.value} ${r.drivingForce.original.unit}` : undefined],
-  ['lambda_solvent', 'eV', r => r.reportedParameters?.lambdaSolvent], ['lambda_internal', 'eV', r => r.reportedParameters?.lambdaInternal],
-  ['coupling', 'eV', r => r.reportedParameters?.coupling], ['vibration_energy', 'eV', r => r.reportedParameters?.vibrationEnergy],
-  ['technique', '', r => r.technique.method], ['excitation_wavelength', 'nm', r => r.technique.excitationWavelengthNm], ['time_resolution', 's', r => r.technique.timeResolutionS],
-  ['notes', '', r => r.notes], ['location', '', r => r.location]
-]
-const PROVENANCE = ['record_id', 'dataset_id', 'dataset_version', 'dataset_identifier', 'license']
-
-/** Spreadsheet formula injection: a text cell starting with = + - @ or a control character is prefixed with '. */
-export function neutralizeCell (v: unknown): unknown {
-  return typeof v === 'string' && /^[=+\-@\t\r]/.test(v) ? `'${v}` : v
-}
-
-/**
- * One CSV line per RFC 4180 (quote a field only when it holds a comma, quote or line break).
- * Hand-written because papaparse's per-cell checks were the largest cost in the 100 000-record
- * bundle profile; the tests read the result back with papaparse.
- */
-function csvLine (cells: unknown[]): string {
-  let out = ''
-  for (let i = 0; i < cells.length; i++) {
-    const v = cells[i]
-    const t = v === null || v === undefined ? '' : typeof v === 'string' ? v : String(v)
-    out += (i ? ',' : '') + (/[",\r\n]/.test(t) ? `"${t.replace(/"/g, '""')}"` : t)
-  }
-  return out + '\r\n'
-}
 
 export interface Selection {
   /** SQL filter on rate_record joined with dataset_version (and dataset). */
@@ -70,20 +30,53 @@ export interface Selection {
   source: string
 }
 
-interface Row { id: number, raw: string, datasetId: number, versionNumber: number, doi: string | null, license: string }
+const FROM_ROWID = sql`rate_record not indexed inner join dataset_version on dataset_version.id = rate_record.version_id inner join dataset on dataset.id = dataset_version.dataset_id`
+const FROM = sql`rate_record inner join dataset_version on dataset_version.id = rate_record.version_id inner join dataset on dataset.id = dataset_version.dataset_id`
+/** A text cell as the CSV writer would make it, in SQL: formula cells neutralised, quoted when needed. */
+const cell = (x: SQL) => {
+  const safe = sql`(case when substr(${x}, 1, 1) in ('=', '+', '-', '@', char(9), char(13)) then '''' || ${x} else ${x} end)`
+  return sql`(case when ${safe} glob ('*[",' || char(13, 10) || ']*') then '"' || replace(${safe}, '"', '""') || '"' else ${safe} end)`
+}
+const PREFIX = sql`rate_record.id || ',' || dataset_version.dataset_id || ',' || dataset_version.version_number || ',' || ${cell(sql`coalesce(dataset_version.doi, '')`)} || ',' || ${cell(sql`dataset_version.license`)} || ','`
+const JSON_LINE = sql`'{"id":' || rate_record.id || ',"datasetId":' || dataset_version.dataset_id || ',"datasetVersion":' || dataset_version.version_number || ',"identifier":' || coalesce(json_quote(dataset_version.doi), 'null') || ',"license":' || json_quote(dataset_version.license) || ',"record":' || rate_record.data || '}'`
 
-async function * pages (sel: Selection, signal: AbortSignal): AsyncGenerator<Row[]> {
-  const db = await useDb()
-  let last = 0
-  for (;;) {
+type Reader = Pick<Awaited<ReturnType<typeof useDb>>, 'get' | 'all'>
+
+/**
+ * The selection's records.csv rows or records.json items, a page at a time, each page joined by
+ * SQLite (group_concat) and handed over as bytes (cast as blob: no UTF-8 decoding and re-encoding
+ * in JavaScript), so one row crosses into JavaScript per page. A page is a range of 5 000 record
+ * ids walked in rowid order (NOT INDEXED: SQLite would otherwise rescan the whole version through
+ * its index for every page); an empty range skips ahead to the next record of the selection.
+ */
+async function * pages (db: Reader, sel: Selection, span: { first: number, last: number }, kind: 'csv' | 'json', signal: AbortSignal): AsyncGenerator<{ bytes: Buffer, n: number }> {
+  const item = kind === 'csv' ? sql`${PREFIX} || rate_record.csv_line` : JSON_LINE
+  let lo = span.first
+  while (lo <= span.last) {
     if (signal.aborted) return
-    // the record's JSON text as stored: parsed once for the CSV, copied as is into records.json
-    const rows = await db.select({ id: records.id, raw: sql<string>`rate_record.data`, datasetId: versions.datasetId, versionNumber: versions.versionNumber, doi: versions.doi, license: versions.license })
-      .from(records).innerJoin(versions, eq(versions.id, records.versionId)).innerJoin(datasets, eq(datasets.id, versions.datasetId))
-      .where(and(sel.where, gt(records.id, last))).orderBy(asc(records.id)).limit(PAGE)
-    if (!rows.length) return
-    last = rows[rows.length - 1]!.id
-    yield rows as unknown as Row[]
+    const hi = Math.min(lo + PAGE - 1, span.last)
+    const row = await db.get<{ n: number, bytes: ArrayBuffer | null }>(sql`select count(*) as n, cast(group_concat(${item}, ${kind === 'csv' ? '' : ','}) as blob) as bytes
+      from ${FROM_ROWID} where rate_record.id between ${lo} and ${hi} and (${sel.where})`)
+    if (row?.n) yield { bytes: Buffer.from(row.bytes!), n: row.n }
+    else {
+      const next = await db.get<{ id: number | null }>(sql`select min(rate_record.id) as id from ${FROM} where rate_record.id > ${hi} and (${sel.where})`)
+      if (next?.id == null) return
+      lo = next.id
+      continue
+    }
+    lo = hi + 1
+  }
+}
+
+/** Stored CSV lines missing or of another CSV_FORMAT are computed and stored first (rows written before the column existed). */
+async function refreshCsvLines (sel: Selection): Promise<void> {
+  const db = await useDb()
+  for (;;) {
+    const stale = await db.all<{ id: number, data: string }>(sql`select rate_record.id as id, rate_record.data as data from ${FROM} where (${sel.where}) and (rate_record.csv_format is null or rate_record.csv_format != ${CSV_FORMAT}) limit 2000`)
+    if (!stale.length) return
+    await db.transaction(async (tx) => {
+      for (const r of stale) await tx.update(records).set({ csvLine: recordCsvLine(JSON.parse(r.data) as RateRecordV1), csvFormat: CSV_FORMAT }).where(eq(records.id, r.id))
+    })
   }
 }
 
@@ -116,46 +109,35 @@ export async function writeBundle (sel: Selection, out: NodeJS.WritableStream, s
   const done = new Promise<void>((resolve, reject) => { zip.on('error', reject); out.on('finish', () => resolve()); out.on('close', () => resolve()) })
   zip.pipe(out)
   signal.addEventListener('abort', () => zip.abort(), { once: true })
-  const datasetIds = new Set<number>()
-  const versionKeys = new Set<string>()
   let count = 0
   const payload: Entry[] = []
-  const header = [...PROVENANCE, ...CSV_COLUMNS.map(([k, u]) => u ? `${k} (${u})` : k)]
-
-  // One pass over the records: the CSV streams into the ZIP while records.json is spooled to a
-  // temporary file (ZIP entries are sequential), then copied in.
-  const spoolDir = await mkdtemp(join(tmpdir(), 'crosspoint-bundle-'))
-  const spoolPath = join(spoolDir, 'records.json')
-  try {
-    const spool = createWriteStream(spoolPath)
-    const put = (text: string) => spool.write(text) ? Promise.resolve() : new Promise<void>(r => spool.once('drain', () => r()))
-    await put(`{"schema":${JSON.stringify(publicUrl('/schemas/rate-record.v1.json'))},"records":[`)
+  const header = CSV_HEADER
+  await refreshCsvLines(sel)
+  // Both files are read in one read transaction, so they hold the same records even if the
+  // archive changes meanwhile (in WAL mode the snapshot blocks no writer).
+  const db = await useDb()
+  const contributing = await db.transaction(async (tx) => {
+    const found = await tx.get<{ first: number | null, last: number | null }>(sql`select min(rate_record.id) as first, max(rate_record.id) as last from ${FROM} where ${sel.where}`)
+    const span = found?.first != null ? { first: found.first, last: found.last! } : { first: 1, last: 0 }
     const csv = async function * () {
       yield csvLine(header)
-      for await (const page of pages(sel, signal)) {
-        let lines = ''
-        let json = ''
-        for (const r of page) {
-          datasetIds.add(r.datasetId); versionKeys.add(`${r.datasetId}:${r.versionNumber}`)
-          const data = JSON.parse(r.raw) as RateRecordV1
-          lines += csvLine([r.id, r.datasetId, r.versionNumber, r.doi ?? '', r.license, ...CSV_COLUMNS.map(([, , f]) => neutralizeCell(f(data) ?? ''))])
-          json += `${count++ ? ',' : ''}{"id":${r.id},"datasetId":${r.datasetId},"datasetVersion":${r.versionNumber},"identifier":${JSON.stringify(r.doi)},"license":${JSON.stringify(r.license)},"record":${r.raw}}`
-        }
-        await put(json)
-        yield lines
-      }
+      for await (const p of pages(tx, sel, span, 'csv', signal)) { count += p.n; yield p.bytes }
     }
     payload.push(await appendHashed(zip, 'data/records.csv', csv()))
-    await put(']}')
-    await new Promise<void>((resolve, reject) => { spool.once('error', reject); spool.end(() => resolve()) })
-    payload.push(await appendHashed(zip, 'data/records.json', createReadStream(spoolPath)))
-  } finally {
-    await rm(spoolDir, { recursive: true, force: true })
-  }
+    const json = async function * () {
+      yield `{"schema":${JSON.stringify(publicUrl('/schemas/rate-record.v1.json'))},"records":[`
+      let first = true
+      for await (const p of pages(tx, sel, span, 'json', signal)) { if (!first) yield ','; yield p.bytes; first = false }
+      yield ']}'
+    }
+    payload.push(await appendHashed(zip, 'data/records.json', json()))
+    return tx.all<{ datasetId: number, versionNumber: number }>(sql`select distinct dataset_version.dataset_id as datasetId, dataset_version.version_number as versionNumber from ${FROM} where ${sel.where}`)
+  }, { behavior: 'deferred' })
+  const datasetIds = new Set(contributing.map(c => c.datasetId))
+  const versionKeys = new Set(contributing.map(c => `${c.datasetId}:${c.versionNumber}`))
   if (signal.aborted) { await done.catch(() => {}); return { records: count, datasets: datasetIds.size } }
 
   // dataset-level files: citations and licences of every contributing version
-  const db = await useDb()
   const vrows = versionKeys.size
     ? await db.select({ v: versions, conceptDoi: datasets.conceptDoi, labName: labs.name }).from(versions).innerJoin(datasets, eq(datasets.id, versions.datasetId)).innerJoin(labs, eq(labs.id, datasets.labId))
       .where(inArray(versions.datasetId, [...datasetIds]))

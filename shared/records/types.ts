@@ -2,6 +2,8 @@
  * TypeScript view of schemas/rate-record.v1.json (canonical units). The JSON Schema is the
  * source of truth; keep the two in step (a unit test validates typed fixtures against it).
  */
+import { CSV_FORMAT, recordCsvLine } from './csv'
+
 export type Linkage = 'covalent' | 'supramolecular' | 'bimolecular' | 'protein' | 'other'
 export type ProcessKind = 'charge-separation' | 'charge-recombination' | 'charge-shift' | 'hole-transfer' | 'other'
 export type InitialState = 'singlet' | 'triplet' | 'thermal'
@@ -52,9 +54,11 @@ export interface DatasetMetadataV1 {
   publicationYear?: number
 }
 
-/** The searchable columns stored beside each record's JSON. */
+/** The searchable columns (and the bundle CSV line) stored beside each record's JSON. */
 export function recordColumns (r: RateRecordV1) {
   return {
+    csvLine: recordCsvLine(r),
+    csvFormat: CSV_FORMAT,
     donorName: r.system.donor.name,
     acceptorName: r.system.acceptor.name,
     bridgeName: r.system.bridge?.name ?? null,

@@ -1,6 +1,7 @@
 import { createHash } from 'node:crypto'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import AdmZip from 'adm-zip'
+import { createClient } from '@libsql/client'
 import Papa from 'papaparse'
 import Ajv2020 from 'ajv/dist/2020.js'
 import { api, DEMO, signIn, startServer, type TestServer } from '../helpers/server'
@@ -68,6 +69,16 @@ describe('dataset bundles', () => {
     const r = await download('/api/v1/datasets/3/bundle', { headers: { cookie } })
     expect(r.status).toBe(200)
     verifyBag(r.buf)
+  })
+  it('records whose stored CSV line is missing (written before it existed) are bundled the same', async () => {
+    const before = recordsOf(verifyBag((await download('/api/v1/datasets/5/bundle')).buf).files)
+    const c = createClient({ url: s.dbUrl })
+    await c.execute('update rate_record set csv_line = null, csv_format = null where version_id in (select id from dataset_version where dataset_id = 5)')
+    c.close()
+    const after = recordsOf(verifyBag((await download('/api/v1/datasets/5/bundle')).buf).files)
+    expect(after.csv.length).toBeGreaterThan(0)
+    expect(after.csv).toEqual(before.csv)
+    expect(after.json).toEqual(before.json)
   })
   it('a withdrawn dataset offers no bundle (410)', async () => {
     expect((await download('/api/v1/datasets/10/bundle')).status).toBe(410)
