@@ -10,7 +10,7 @@ import { PassThrough, Readable } from 'node:stream'
 import { ZipArchive } from 'archiver'
 import { sendStream, setHeaders, type H3Event } from 'h3'
 import { eq, inArray, sql, type SQL } from 'drizzle-orm'
-import { useDb, schema } from './db'
+import { useDb, useDbClient, schema } from './db'
 import { cff, dataciteJson, selectionCff, toCitable, type CitableVersion } from './citation'
 import { publicUrl } from './mail'
 import { httpError } from './errors'
@@ -40,7 +40,26 @@ const cell = (x: SQL) => {
 const PREFIX = sql`rate_record.id || ',' || dataset_version.dataset_id || ',' || dataset_version.version_number || ',' || ${cell(sql`coalesce(dataset_version.doi, '')`)} || ',' || ${cell(sql`dataset_version.license`)} || ','`
 const JSON_LINE = sql`'{"id":' || rate_record.id || ',"datasetId":' || dataset_version.dataset_id || ',"datasetVersion":' || dataset_version.version_number || ',"identifier":' || coalesce(json_quote(dataset_version.doi), 'null') || ',"license":' || json_quote(dataset_version.license) || ',"record":' || rate_record.data || '}'`
 
-type Reader = Pick<Awaited<ReturnType<typeof useDb>>, 'get' | 'all'>
+interface Reader { get: <T>(q: SQL) => Promise<T | undefined>, all: <T>(q: SQL) => Promise<T[]> }
+
+/**
+ * A read snapshot on its own connection: both files of a bundle see the same records even if the
+ * archive changes meanwhile. Through the libSQL client, because drizzle's transaction() always
+ * begins IMMEDIATE (a write lock that would queue every bundle and every writer behind each other);
+ * a deferred transaction that only reads holds no lock in WAL mode.
+ */
+async function withReadSnapshot<T> (fn: (r: Reader) => Promise<T>): Promise<T> {
+  const db = await useDb()
+  const tx = await (await useDbClient()).transaction('deferred')
+  const run = async (q: SQL) => { const { sql: text, params } = (db as unknown as { dialect: { sqlToQuery: (q: SQL) => { sql: string, params: unknown[] } } }).dialect.sqlToQuery(q); return (await tx.execute({ sql: text, args: params as never })).rows }
+  try {
+    const out = await fn({ get: async <R>(q: SQL) => (await run(q))[0] as R | undefined, all: async <R>(q: SQL) => (await run(q)) as unknown as R[] })
+    await tx.commit()
+    return out
+  } finally {
+    tx.close()
+  }
+}
 
 /**
  * The selection's records.csv rows or records.json items, a page at a time, each page joined by
@@ -115,8 +134,7 @@ export async function writeBundle (sel: Selection, out: NodeJS.WritableStream, s
   await refreshCsvLines(sel)
   // Both files are read in one read transaction, so they hold the same records even if the
   // archive changes meanwhile (in WAL mode the snapshot blocks no writer).
-  const db = await useDb()
-  const contributing = await db.transaction(async (tx) => {
+  const contributing = await withReadSnapshot(async (tx) => {
     const found = await tx.get<{ first: number | null, last: number | null }>(sql`select min(rate_record.id) as first, max(rate_record.id) as last from ${FROM} where ${sel.where}`)
     const span = found?.first != null ? { first: found.first, last: found.last! } : { first: 1, last: 0 }
     const csv = async function * () {
@@ -132,7 +150,8 @@ export async function writeBundle (sel: Selection, out: NodeJS.WritableStream, s
     }
     payload.push(await appendHashed(zip, 'data/records.json', json()))
     return tx.all<{ datasetId: number, versionNumber: number }>(sql`select distinct dataset_version.dataset_id as datasetId, dataset_version.version_number as versionNumber from ${FROM} where ${sel.where}`)
-  }, { behavior: 'deferred' })
+  })
+  const db = await useDb()
   const datasetIds = new Set(contributing.map(c => c.datasetId))
   const versionKeys = new Set(contributing.map(c => `${c.datasetId}:${c.versionNumber}`))
   if (signal.aborted) { await done.catch(() => {}); return { records: count, datasets: datasetIds.size } }
@@ -189,6 +208,9 @@ function readme (cited: CitableVersion[], sel: Selection, count: number, header:
 export const MAX_BUNDLE_RECORDS = 200_000
 const running = new Map<string, number>()
 export const MAX_CONCURRENT_BUNDLES = 2
+/** Bundles at once on this instance, whoever asks (each holds a database connection for its read snapshot). */
+export const MAX_BUNDLES_PER_INSTANCE = 8
+let runningTotal = 0
 
 /** Streams the bag as the answer; at most two bundles at once per client, and a disconnect stops the work. */
 export async function sendBundle (event: H3Event, sel: Selection, filename: string) {
@@ -200,14 +222,25 @@ export async function sendBundle (event: H3Event, sel: Selection, filename: stri
     setHeaders(event, { 'retry-after': '5' })
     throw httpError(429, `At most ${MAX_CONCURRENT_BUNDLES} bundles at once per client; wait for one to finish`)
   }
+  if (runningTotal >= MAX_BUNDLES_PER_INSTANCE) {
+    setHeaders(event, { 'retry-after': '5' })
+    throw httpError(503, `The server is making ${MAX_BUNDLES_PER_INSTANCE} bundles already; try again in a few seconds`)
+  }
   running.set(who, (running.get(who) ?? 0) + 1)
+  runningTotal++
   const controller = new AbortController()
   const out = new PassThrough()
   let finished = false
-  const release = () => { if (!finished) { finished = true; running.set(who, Math.max(0, (running.get(who) ?? 1) - 1)) } }
+  const release = () => {
+    if (finished) return
+    finished = true
+    const left = (running.get(who) ?? 1) - 1
+    if (left > 0) running.set(who, left); else running.delete(who)
+  }
   event.node.req.on('close', () => { if (!event.node.res.writableFinished) controller.abort(); release() })
   event.node.res.on('finish', release)
   setHeaders(event, { 'content-type': 'application/zip', 'content-disposition': `attachment; filename="${filename}"`, 'x-crosspoint-records': String(n) })
-  writeBundle(sel, out, controller.signal).catch((e) => { out.destroy(e as Error) }).finally(release)
+  // the instance-wide slot is freed when the work has really stopped (its snapshot closed), not at disconnect
+  writeBundle(sel, out, controller.signal).catch((e) => { out.destroy(e as Error) }).finally(() => { release(); runningTotal-- })
   return sendStream(event, out)
 }

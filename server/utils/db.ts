@@ -60,7 +60,9 @@ export async function assertIntact (client: Client, url: string): Promise<void> 
 }
 
 export async function openDatabase (url: string, authToken?: string): Promise<{ db: Db, client: Client }> {
-  const client = createClient({ url: prepareFileDatabase(url), authToken: authToken || undefined })
+  // timeout: every pooled connection (transactions get their own) waits up to 5 s for a lock
+  // instead of failing at once with SQLITE_BUSY; the PRAGMA below only reaches the first one.
+  const client = createClient({ url: prepareFileDatabase(url), authToken: authToken || undefined, timeout: 5000 })
   if (url.startsWith('file:')) {
     await client.execute('PRAGMA journal_mode = WAL')
     await client.execute('PRAGMA busy_timeout = 5000')
