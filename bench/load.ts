@@ -19,7 +19,9 @@ const { seed } = await import('../scripts/seed')
 await seed(dbUrl)
 const port = await new Promise<number>(r => { const s = createServer(); s.listen(0, '127.0.0.1', () => { const p = (s.address() as { port: number }).port; s.close(() => r(p)) }) })
 const url = `http://127.0.0.1:${port}`
-const proc = spawn(process.execPath, [entry], { env: { ...process.env, PORT: String(port), HOST: '127.0.0.1', NUXT_DATABASE_URL: dbUrl, NUXT_DATA_DIR: dir, AUTH_ORIGIN: `${url}/api/auth` }, stdio: 'ignore' })
+// LOAD_HEAP_MB caps the server's JavaScript heap: RSS that still grows then is native memory, not garbage
+const heap = process.env.LOAD_HEAP_MB ? [`--max-old-space-size=${process.env.LOAD_HEAP_MB}`] : []
+const proc = spawn(process.execPath, [...heap, entry], { env: { ...process.env, PORT: String(port), HOST: '127.0.0.1', NUXT_DATABASE_URL: dbUrl, NUXT_DATA_DIR: dir, AUTH_ORIGIN: `${url}/api/auth` }, stdio: 'ignore' })
 for (let i = 0; i < 300; i++) { try { if ((await fetch(`${url}/api/v1/health`)).ok) break } catch { /* starting */ } await new Promise(r => setTimeout(r, 100)) }
 const rss = () => Number(readFileSync(`/proc/${proc.pid}/status`, 'utf8').match(/VmRSS:\s+(\d+)/)![1]) / 1024
 const ids = (await (await fetch(`${url}/api/v1/records?pageSize=200`)).json() as { items: { id: number }[] }).items.map(i => i.id)

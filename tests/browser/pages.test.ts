@@ -19,6 +19,21 @@ describe('pages a visitor sees', () => {
     expect(await page.locator('h1').first().textContent()).toBeTruthy()
     await page.close()
   })
+  it('a record with SMILES shows its structures drawn by RDKit, and similar systems by structure', async () => {
+    const { page, errors } = await newPage(browser)
+    const hit = (await api(s.url, '/api/v1/records?q=dimethoxynaphthalene&pageSize=1')).data.items[0]
+    await page.goto(`${s.url}/records/${hit.id}`, { waitUntil: 'networkidle' })
+    const figs = page.locator('[data-test=structures] figure')
+    expect(await figs.count()).toBe(2)
+    expect(await figs.first().locator('img').getAttribute('src')).toMatch(/^data:image\/svg\+xml;base64,/)
+    expect(await figs.first().locator('img').evaluate((i: HTMLImageElement) => i.complete && i.naturalWidth > 0)).toBe(true)
+    expect(await page.locator('[data-test=structures]').textContent()).toMatch(/InChIKey\s*[A-Z]{14}-[A-Z]{10}-[A-Z]/)
+    await page.waitForSelector('[data-test=similar] tbody tr')
+    expect(await page.locator('[data-test=similar]').textContent()).toContain('Tanimoto')
+    await shot(page, 'visitor_record_structures')
+    expect(errors).toEqual([])
+    await page.close()
+  })
   it('the overview shows the archive counts and draws the plot of every published record', async () => {
     const { page } = await newPage(browser)
     await page.goto(s.url + '/', { waitUntil: 'networkidle' })
