@@ -37,8 +37,17 @@ const cell = (x: SQL) => {
   const safe = sql`(case when substr(${x}, 1, 1) in ('=', '+', '-', '@', char(9), char(13)) then '''' || ${x} else ${x} end)`
   return sql`(case when ${safe} glob ('*[",' || char(13, 10) || ']*') then '"' || replace(${safe}, '"', '""') || '"' else ${safe} end)`
 }
-const PREFIX = sql`rate_record.id || ',' || dataset_version.dataset_id || ',' || dataset_version.version_number || ',' || ${cell(sql`coalesce(dataset_version.doi, '')`)} || ',' || ${cell(sql`dataset_version.license`)} || ','`
-const JSON_LINE = sql`'{"id":' || rate_record.id || ',"datasetId":' || dataset_version.dataset_id || ',"datasetVersion":' || dataset_version.version_number || ',"identifier":' || coalesce(json_quote(dataset_version.doi), 'null') || ',"license":' || json_quote(dataset_version.license) || ',"record":' || rate_record.data || '}'`
+/**
+ * What every record of a version shares, made once per version (a materialised CTE, so SQLite does not
+ * fold it back into the per-record expression): the provenance cells after record_id, and the JSON
+ * item's fields between "id" and "record".
+ */
+const VERSION_PARTS = sql`with version_parts as materialized (select dataset_version.id as vid,
+  ',' || dataset_version.dataset_id || ',' || dataset_version.version_number || ',' || ${cell(sql`coalesce(dataset_version.doi, '')`)} || ',' || ${cell(sql`dataset_version.license`)} || ',' as csv,
+  ',"datasetId":' || dataset_version.dataset_id || ',"datasetVersion":' || dataset_version.version_number || ',"identifier":' || coalesce(json_quote(dataset_version.doi), 'null') || ',"license":' || json_quote(dataset_version.license) || ',"record":' as json
+  from dataset_version)`
+const PREFIX = sql`rate_record.id || version_parts.csv`
+const JSON_LINE = sql`'{"id":' || rate_record.id || version_parts.json || rate_record.data || '}'`
 
 interface Reader { get: <T>(q: SQL) => Promise<T | undefined>, all: <T>(q: SQL) => Promise<T[]> }
 
@@ -74,8 +83,8 @@ async function * pages (db: Reader, sel: Selection, span: { first: number, last:
   while (lo <= span.last) {
     if (signal.aborted) return
     const hi = Math.min(lo + PAGE - 1, span.last)
-    const row = await db.get<{ n: number, bytes: ArrayBuffer | null }>(sql`select count(*) as n, cast(group_concat(${item}, ${kind === 'csv' ? '' : ','}) as blob) as bytes
-      from ${FROM_ROWID} where rate_record.id between ${lo} and ${hi} and (${sel.where})`)
+    const row = await db.get<{ n: number, bytes: ArrayBuffer | null }>(sql`${VERSION_PARTS} select count(*) as n, cast(group_concat(${item}, ${kind === 'csv' ? '' : ','}) as blob) as bytes
+      from ${FROM_ROWID} inner join version_parts on version_parts.vid = rate_record.version_id where rate_record.id between ${lo} and ${hi} and (${sel.where})`)
     if (row?.n) yield { bytes: Buffer.from(row.bytes!), n: row.n }
     else {
       const next = await db.get<{ id: number | null }>(sql`select min(rate_record.id) as id from ${FROM} where rate_record.id > ${hi} and (${sel.where})`)
