@@ -30,8 +30,10 @@ export interface Selection {
   source: string
 }
 
-const FROM_ROWID = sql`rate_record not indexed inner join dataset_version on dataset_version.id = rate_record.version_id inner join dataset on dataset.id = dataset_version.dataset_id`
-const FROM = sql`rate_record inner join dataset_version on dataset_version.id = rate_record.version_id inner join dataset on dataset.id = dataset_version.dataset_id`
+const JOINS = sql`inner join dataset_version on dataset_version.id = rate_record.version_id inner join dataset on dataset.id = dataset_version.dataset_id`
+const FROM = sql`rate_record ${JOINS}`
+/** The same tables, with SQLite kept on the rowid of rate_record (see pages()). */
+const FROM_ROWID = sql`rate_record not indexed ${JOINS}`
 /** A text cell as the CSV writer would make it, in SQL: formula cells neutralised, quoted when needed. */
 const cell = (x: SQL) => {
   const safe = sql`(case when substr(${x}, 1, 1) in ('=', '+', '-', '@', char(9), char(13)) then '''' || ${x} else ${x} end)`

@@ -117,7 +117,8 @@ export async function structureIssues (records: { system: { donor: { smiles?: st
   const all = records.flatMap(r => species.map(k => r.system[k]?.smiles).filter((s): s is string => !!s))
   if (!all.length) return { errors: [], warnings: [] }
   const known = await structuresFor(all)
-  const errors: { path: string, row?: number, column?: string, message: string }[] = []
+  /** `index`: which of `records` the problem belongs to. */
+  const errors: { index: number, path: string, row?: number, column?: string, message: string }[] = []
   const warnings: typeof errors = []
   records.forEach((r, i) => {
     for (const k of species) {
@@ -125,7 +126,7 @@ export async function structureIssues (records: { system: { donor: { smiles?: st
       if (!sp?.smiles) continue
       const st = known.get(sp.smiles)!
       const where = at(i)
-      const loc = { path: `${where.path}/system/${k}/smiles`, ...(where.row !== undefined ? { row: where.row, column: `${k}_smiles` } : {}) }
+      const loc = { index: i, path: `${where.path}/system/${k}/smiles`, ...(where.row !== undefined ? { row: where.row, column: `${k}_smiles` } : {}) }
       if (st.error) errors.push({ ...loc, message: `${k} SMILES "${sp.smiles.slice(0, 60)}" is not a valid structure: ${st.error}` })
       else if (sp.inchiKey && st.inchiKey && sp.inchiKey !== st.inchiKey) warnings.push({ ...loc, path: `${where.path}/system/${k}/inchiKey`, message: `${k} InChIKey ${sp.inchiKey} does not match the SMILES (RDKit gives ${st.inchiKey})` })
     }

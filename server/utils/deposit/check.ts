@@ -52,13 +52,14 @@ type Checked = Omit<CheckResult, 'kind'> & { origins: { path: string, row?: numb
 async function withStructures ({ origins, ...res }: Checked): Promise<Omit<CheckResult, 'kind'>> {
   const { errors, warnings } = await structureIssues(res.records, i => origins[i]!)
   if (!errors.length && !warnings.length) return res
-  const bad = new Set(errors.map(e => e.path.replace(/\/system\/.*$/, '') + '|' + (e.row ?? '')))
-  const keep = res.records.filter((_, i) => !bad.has(`${origins[i]!.path}|${origins[i]!.row ?? ''}`))
+  const bad = new Set(errors.map(e => e.index))
+  const keep = res.records.filter((_, i) => !bad.has(i))
+  const issue = ({ index: _, ...rest }: typeof errors[number]): RowIssue => rest
   const byRow = (a: RowIssue, b: RowIssue) => (a.row ?? 0) - (b.row ?? 0)
   return {
     ...res, records: keep,
-    issues: [...res.issues, ...errors].sort(byRow).slice(0, MAX_LISTED), issueCount: res.issueCount + errors.length,
-    warnings: [...res.warnings, ...warnings].sort(byRow).slice(0, MAX_LISTED), warningCount: res.warningCount + warnings.length
+    issues: [...res.issues, ...errors.map(issue)].sort(byRow).slice(0, MAX_LISTED), issueCount: res.issueCount + errors.length,
+    warnings: [...res.warnings, ...warnings.map(issue)].sort(byRow).slice(0, MAX_LISTED), warningCount: res.warningCount + warnings.length
   }
 }
 
