@@ -2,6 +2,12 @@
  * Mixed load against the built server: 60 s at 50 connections of search, record pages, model
  * curves, bundle downloads and sign-in attempts, on the seeded demo database. Reports throughput,
  * p50/p99 latency, 5xx answers (must be 0; 429s from the limits are expected) and memory.
+ *
+ * Memory: a 20 s warm-up of the same mix comes first (JIT, caches, pools filling), then the 60 s
+ * that are measured. RSS alone cannot tell a leak from V8 growing its heap because it may (it
+ * grows the old space lazily under a high allocation rate, up to its limit), so the server also
+ * runs with --trace-gc and the bench reads the live heap left after each full (mark-compact)
+ * collection: a leak shows as that floor rising; a stable server keeps it flat.
  */
 import { spawn } from 'node:child_process'
 import { existsSync, mkdtempSync, readFileSync, rmSync } from 'node:fs'
@@ -21,14 +27,23 @@ const port = await new Promise<number>(r => { const s = createServer(); s.listen
 const url = `http://127.0.0.1:${port}`
 // LOAD_HEAP_MB caps the server's JavaScript heap: RSS that still grows then is native memory, not garbage
 const heap = process.env.LOAD_HEAP_MB ? [`--max-old-space-size=${process.env.LOAD_HEAP_MB}`] : []
-const proc = spawn(process.execPath, [...heap, entry], { env: { ...process.env, PORT: String(port), HOST: '127.0.0.1', NUXT_DATABASE_URL: dbUrl, NUXT_DATA_DIR: dir, AUTH_ORIGIN: `${url}/api/auth` }, stdio: 'ignore' })
+const proc = spawn(process.execPath, [...heap, '--trace-gc', entry], { env: { ...process.env, PORT: String(port), HOST: '127.0.0.1', NUXT_DATABASE_URL: dbUrl, NUXT_DATA_DIR: dir, AUTH_ORIGIN: `${url}/api/auth` }, stdio: ['ignore', 'pipe', 'ignore'] })
+// "[pid:0x…]  41234 ms: Mark-Compact 180.2 (200.1) -> 95.3 (190.0) MB, …" (V8's --trace-gc line)
+const fullGcs: { at: number, liveMb: number }[] = []
+let measuring = false
+let pending = ''
+proc.stdout!.setEncoding('utf8').on('data', (chunk: string) => {
+  pending += chunk
+  const lines = pending.split('\n'); pending = lines.pop()!
+  for (const line of lines) {
+    const m = line.match(/Mark-Compact(?: \(reduce\))? [\d.]+ \([\d.]+\) -> ([\d.]+) \([\d.]+\) MB/)
+    if (m && measuring) fullGcs.push({ at: Date.now(), liveMb: Number(m[1]) })
+  }
+})
 for (let i = 0; i < 300; i++) { try { if ((await fetch(`${url}/api/v1/health`)).ok) break } catch { /* starting */ } await new Promise(r => setTimeout(r, 100)) }
 const rss = () => Number(readFileSync(`/proc/${proc.pid}/status`, 'utf8').match(/VmRSS:\s+(\d+)/)![1]) / 1024
 const ids = (await (await fetch(`${url}/api/v1/records?pageSize=200`)).json() as { items: { id: number }[] }).items.map(i => i.id)
 const words = ['porphyrin', 'znp', 'benzonitril', 'viologen', 'acridinium', 'copper', 'imide', 'water']
-const rssStart = rss()
-const samples: number[] = []
-const sampler = setInterval(() => { try { samples.push(rss()) } catch { /* ended */ } }, 5000)
 let n = 0
 const mix = [
   () => ({ method: 'GET', path: `/api/v1/records?q=${words[n % words.length]}&pageSize=20` }),
@@ -42,16 +57,26 @@ const mix = [
 const skip = (process.env.LOAD_SKIP ?? '').split(',').filter(Boolean)
 const kinds = ['search', 'record', 'curve', 'page', 'bundle', 'signin']
 const active = mix.filter((_, i) => !skip.includes(kinds[i]!))
-const res = await autocannon({
-  url, connections: 50, duration: Number(process.env.LOAD_SECONDS ?? 60),
+const run = (duration: number) => autocannon({
+  url, connections: 50, duration,
   requests: [{ setupRequest: (req: Record<string, unknown>) => ({ ...req, ...active[n++ % active.length]!() }) }]
 })
+await run(Number(process.env.LOAD_WARMUP_SECONDS ?? 20))
+measuring = true
+const rssStart = rss()
+const samples: number[] = [rssStart]
+const sampler = setInterval(() => { try { samples.push(rss()) } catch { /* ended */ } }, 5000)
+const res = await run(Number(process.env.LOAD_SECONDS ?? 60))
 const codes = res.statusCodeStats as Record<string, { count: number }>
 const fiveXX = Object.entries(codes).filter(([c]) => c.startsWith('5')).reduce((s, [, v]) => s + v.count, 0)
 const rssEnd = rss()
 clearInterval(sampler)
 proc.kill('SIGTERM')
 const half = samples.slice(Math.floor(samples.length / 2))
+// live heap after full collections: mean of the first third against the mean of the last third
+const third = Math.max(1, Math.floor(fullGcs.length / 3))
+const mean = (xs: { liveMb: number }[]) => xs.reduce((a, x) => a + x.liveMb, 0) / Math.max(1, xs.length)
+const liveFirst = mean(fullGcs.slice(0, third)); const liveLast = mean(fullGcs.slice(-third))
 report('load.mixed.requests_per_second', res.requests.average, '1/s', 0)
 report('load.mixed.p50_ms', res.latency.p50, 'ms', 0)
 report('load.mixed.p99_ms', res.latency.p99, 'ms', 0)
@@ -60,6 +85,11 @@ report('load.mixed.rss_start_mb', rssStart, 'MB', 0)
 report('load.mixed.rss_end_mb', rssEnd, 'MB', 0)
 // stable memory: how much the RSS still grew over the second half of the run
 report('load.mixed.rss_growth_second_half_mb', half.length > 1 ? Math.max(...half) - half[0]! : 0, 'MB', 0)
+report('load.mixed.full_gcs', fullGcs.length, 'count', 0)
+report('load.mixed.live_heap_first_third_mb', liveFirst, 'MB', 0)
+// stable memory: the floor the heap returns to after full collections does not rise (≤ 20 MB over the run, common practice)
+report('load.mixed.live_heap_growth_mb', liveLast - liveFirst, 'MB', 20)
+process.stderr.write(`(live heap after each full GC: ${fullGcs.map(g => g.liveMb.toFixed(0)).join(' ')} MB)\n`)
 process.stderr.write(`(RSS every 5 s: ${samples.map(x => x.toFixed(0)).join(' ')} MB)\n`)
 process.stderr.write(`(status codes: ${JSON.stringify(Object.fromEntries(Object.entries(codes).map(([k, v]) => [k, v.count])))})\n`)
 rmSync(dir, { recursive: true, force: true })
