@@ -37,6 +37,8 @@ export default defineNuxtConfig({
     smtpUrl: '',
     registrarUrl: '',
     registrarPrefix: '10.99999',
+    // set NUXT_TRUST_PROXY=1 only behind a reverse proxy that writes X-Forwarded-For itself
+    trustProxy: false,
     public: {
       baseUrl: 'http://localhost:3000',
       version: process.env.npm_package_version ?? '0.1.0'

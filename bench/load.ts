@@ -27,7 +27,9 @@ const port = await new Promise<number>(r => { const s = createServer(); s.listen
 const url = `http://127.0.0.1:${port}`
 // LOAD_HEAP_MB caps the server's JavaScript heap: RSS that still grows then is native memory, not garbage
 const heap = process.env.LOAD_HEAP_MB ? [`--max-old-space-size=${process.env.LOAD_HEAP_MB}`] : []
-const proc = spawn(process.execPath, [...heap, '--trace-gc', entry], { env: { ...process.env, PORT: String(port), HOST: '127.0.0.1', NUXT_DATABASE_URL: dbUrl, NUXT_DATA_DIR: dir, AUTH_ORIGIN: `${url}/api/auth` }, stdio: ['ignore', 'pipe', 'ignore'] })
+// LOAD_NODE_FLAGS adds flags for a diagnosis (e.g. --heapsnapshot-signal=SIGUSR2 to take heap snapshots mid-run)
+const extra = (process.env.LOAD_NODE_FLAGS ?? '').split(' ').filter(Boolean)
+const proc = spawn(process.execPath, [...heap, ...extra, '--trace-gc', entry], { env: { ...process.env, PORT: String(port), HOST: '127.0.0.1', NUXT_DATABASE_URL: dbUrl, NUXT_DATA_DIR: dir, AUTH_ORIGIN: `${url}/api/auth` }, stdio: ['ignore', 'pipe', 'ignore'] })
 // "[pid:0x…]  41234 ms: Mark-Compact 180.2 (200.1) -> 95.3 (190.0) MB, …" (V8's --trace-gc line)
 const fullGcs: { at: number, liveMb: number }[] = []
 let measuring = false

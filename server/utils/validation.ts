@@ -25,11 +25,29 @@ export function useAjv () {
   return ajvInstance
 }
 
+/**
+ * Compiled validators, once per distinct schema. Routes often declare their small schemas inline,
+ * i.e. a new object on every request, and ajv keeps every schema object it has compiled in its own
+ * cache: keyed by object alone, each request would compile afresh and stay in memory for good.
+ * So the schema's text is the key (routes' schemas are constants of the code, a bounded set), and
+ * the WeakMap spares re-serialising a schema object already seen.
+ */
 const compiled = new WeakMap<object, ValidateFunction>()
+const bySource = new Map<string, ValidateFunction>()
 export function compile<T = unknown> (schema: object): ValidateFunction<T> {
   let v = compiled.get(schema)
-  if (!v) { v = useAjv().compile(schema); compiled.set(schema, v) }
+  if (!v) {
+    const key = JSON.stringify(schema)
+    v = bySource.get(key)
+    if (!v) { v = useAjv().compile(schema); bySource.set(key, v) }
+    compiled.set(schema, v)
+  }
   return v as ValidateFunction<T>
+}
+
+/** How many validators have been compiled (for tests: it must not grow with the number of requests). */
+export function compiledValidatorCount (): number {
+  return bySource.size
 }
 
 /** ajv errors as issues with a JSON pointer and a plain sentence. */

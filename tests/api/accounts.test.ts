@@ -110,6 +110,21 @@ describe('secrets at rest and repeated failures', () => {
     expect(last).toBe(429)
     expect(Number(retry)).toBeGreaterThan(0)
   }, 60_000)
+  it('a new X-Forwarded-For on every attempt does not undo the limit (the header is not trusted by default)', async () => {
+    const statuses: number[] = []
+    for (let i = 0; i < 11; i++) {
+      const csrf = await fetch(`${s.url}/api/auth/csrf`)
+      const cookie = csrf.headers.getSetCookie().map(c => c.split(';')[0]).join('; ')
+      const { csrfToken } = await csrf.json() as { csrfToken: string }
+      const r = await fetch(`${s.url}/api/auth/callback/credentials`, {
+        method: 'POST', redirect: 'manual', headers: { 'content-type': 'application/x-www-form-urlencoded', cookie, 'x-forwarded-for': `198.51.100.${i + 1}` },
+        body: new URLSearchParams({ csrfToken, email: DEMO.curator, password: `wrong-${i}`, json: 'true' })
+      })
+      statuses.push(r.status)
+    }
+    expect(statuses.slice(0, 10)).not.toContain(429)
+    expect(statuses[10]).toBe(429)
+  }, 60_000)
 })
 
 describe('labs, invitations and roles', () => {
