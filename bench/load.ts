@@ -75,10 +75,11 @@ const rssEnd = rss()
 clearInterval(sampler)
 proc.kill('SIGTERM')
 const half = samples.slice(Math.floor(samples.length / 2))
-// live heap after full collections: mean of the first third against the mean of the last third
+// live heap after full collections: median of the first third against the median of the last third
+// (medians: one collection that lands mid-burst, with a request's garbage still reachable, does not move them)
 const third = Math.max(1, Math.floor(fullGcs.length / 3))
-const mean = (xs: { liveMb: number }[]) => xs.reduce((a, x) => a + x.liveMb, 0) / Math.max(1, xs.length)
-const liveFirst = mean(fullGcs.slice(0, third)); const liveLast = mean(fullGcs.slice(-third))
+const median = (xs: { liveMb: number }[]) => { const v = xs.map(x => x.liveMb).sort((a, b) => a - b); return v.length ? (v[(v.length - 1) >> 1]! + v[v.length >> 1]!) / 2 : 0 }
+const liveFirst = median(fullGcs.slice(0, third)); const liveLast = median(fullGcs.slice(-third))
 report('load.mixed.requests_per_second', res.requests.average, '1/s', 0)
 report('load.mixed.p50_ms', res.latency.p50, 'ms', 0)
 report('load.mixed.p99_ms', res.latency.p99, 'ms', 0)

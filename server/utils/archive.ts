@@ -75,10 +75,13 @@ export function isUnderEmbargo (v: { embargoUntil: string | null }): boolean {
   return !!v.embargoUntil && v.embargoUntil > new Date().toISOString().slice(0, 10)
 }
 
-export async function versionRecords (versionId: number, limit = 100_000) {
+/** Columns of a version's records: `summary` leaves out each record's full JSON (tables and plots need only these). */
+export type RecordDetail = 'full' | 'summary'
+export async function versionRecords (versionId: number, limit = 100_000, detail: RecordDetail = 'full') {
   const db = await useDb()
-  return db.select({ id: records.id, position: records.position, recordKey: records.recordKey, data: records.data, deltaG: records.deltaG, log10Rate: records.log10Rate, rate: records.rate, rateKind: records.rateKind, process: records.process, solvent: records.solvent, temperatureK: records.temperatureK, donorName: records.donorName, acceptorName: records.acceptorName, bridgeName: records.bridgeName, distanceAngstrom: records.distanceAngstrom, technique: records.technique, linkage: records.linkage })
-    .from(records).where(eq(records.versionId, versionId)).orderBy(records.position).limit(limit)
+  const summary = { id: records.id, position: records.position, recordKey: records.recordKey, deltaG: records.deltaG, log10Rate: records.log10Rate, rate: records.rate, rateKind: records.rateKind, process: records.process, solvent: records.solvent, temperatureK: records.temperatureK, donorName: records.donorName, acceptorName: records.acceptorName, bridgeName: records.bridgeName, distanceAngstrom: records.distanceAngstrom, technique: records.technique, linkage: records.linkage }
+  if (detail === 'summary') return db.select(summary).from(records).where(eq(records.versionId, versionId)).orderBy(records.position).limit(limit)
+  return db.select({ ...summary, data: records.data }).from(records).where(eq(records.versionId, versionId)).orderBy(records.position).limit(limit)
 }
 
 /** Records of the newest published, out-of-embargo version of each dataset: what anyone may download. */

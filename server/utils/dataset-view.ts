@@ -1,5 +1,5 @@
 /** The landing-page shape of a dataset version, shared by the dataset and version routes. */
-import { defaultVersion, getDataset, isUnderEmbargo, versionRecords } from './archive'
+import { defaultVersion, getDataset, isUnderEmbargo, versionRecords, type RecordDetail } from './archive'
 import { httpError, MESSAGES } from './errors'
 import type { Viewer } from './auth'
 import { desc, eq } from 'drizzle-orm'
@@ -24,7 +24,7 @@ async function reviewNotes (versionId: number) {
   return { decision: rev.decision, comment: rev.comment, at: rev.createdAt, comments }
 }
 
-export async function datasetView (viewer: Viewer | null, id: number, versionNumber?: number) {
+export async function datasetView (viewer: Viewer | null, id: number, versionNumber?: number, detail: RecordDetail = 'full') {
   const { dataset, lab, versions } = await getDataset(viewer, id)
   const version = versionNumber === undefined ? defaultVersion(versions) : versions.find(v => v.versionNumber === versionNumber)
   if (!version) throw httpError(404, MESSAGES.notFound)
@@ -46,7 +46,7 @@ export async function datasetView (viewer: Viewer | null, id: number, versionNum
       withdrawnAt: version.withdrawnAt, withdrawalReason: version.withdrawalReason, updatedAt: version.updatedAt
     },
     versions: versions.map(v => ({ versionNumber: v.versionNumber, state: v.state, doi: v.doi, publishedAt: v.publishedAt, recordCount: v.recordCount })),
-    records: hideRecords ? [] : await versionRecords(version.id),
+    records: hideRecords ? [] : await versionRecords(version.id, undefined, detail),
     review: isMember ? await reviewNotes(version.id) : null,
     jsonLd: version.doi && version.state === 'published' ? jsonLd(toCitable(version, dataset.conceptDoi, lab.name)) : null,
     recordsHidden: hideRecords ? (version.state === 'withdrawn' ? 'withdrawn' : 'embargo') : null

@@ -93,6 +93,23 @@ describe('records and datasets for a visitor', () => {
     expect(r.data.records).toEqual([])
     expect(r.data.recordsHidden).toBe('withdrawn')
   })
+  it('records=summary gives the same records with the table columns and without their JSON; an unknown value is refused by name', async () => {
+    const [p] = await datasetIdByState('published')
+    const full = await api(s.url, `/api/v1/datasets/${p!.id}`)
+    const slim = await api(s.url, `/api/v1/datasets/${p!.id}?records=summary`)
+    expect(slim.status).toBe(200)
+    expect(slim.data.records.length).toBe(full.data.records.length)
+    expect(slim.data.records.length).toBeGreaterThan(0)
+    for (const [i, r] of slim.data.records.entries()) {
+      expect(r.data).toBeUndefined()
+      const { data, ...cols } = full.data.records[i]
+      expect(data.system.donor.name).toBe(cols.donorName)
+      expect(r).toEqual(cols)
+    }
+    const bad = await api(s.url, `/api/v1/datasets/${p!.id}?records=everything`)
+    expect(bad.status).toBe(422)
+    expect(bad.data.data.issues[0].path).toBe('/records')
+  })
   it('a record of a draft is 404 for a visitor', async () => {
     const cookie = await signIn(s.url, 'imre.faulkwood@brightwater.example')
     const [draft] = await datasetIdByState('draft', cookie)
