@@ -178,3 +178,17 @@ describe('security headers', () => {
     expect(r.headers.get('x-content-type-options')).toBe('nosniff')
   })
 })
+
+describe('behind a declared reverse proxy (NUXT_TRUST_PROXY=1)', () => {
+  let p: TestServer
+  beforeAll(async () => { p = await startServer({ env: { NUXT_TRUST_PROXY: '1' } }) })
+  afterAll(async () => { await p?.stop() })
+  it('limits count per forwarded address: one address is stopped, another is not', async () => {
+    const ask = (from: string) => api(p.url, '/api/v1/account/login-link', { method: 'POST', headers: { 'x-forwarded-for': from }, json: { email: 'someone@example.org' } })
+    const fromA: number[] = []
+    for (let i = 0; i < 6; i++) fromA.push((await ask('203.0.113.7')).status)
+    expect(fromA.slice(0, 5)).toEqual([202, 202, 202, 202, 202])
+    expect(fromA[5]).toBe(429)
+    expect((await ask('203.0.113.8')).status).toBe(202)
+  })
+})
