@@ -31,7 +31,7 @@ const heap = process.env.LOAD_HEAP_MB ? [`--max-old-space-size=${process.env.LOA
 const extra = (process.env.LOAD_NODE_FLAGS ?? '').split(' ').filter(Boolean)
 const proc = spawn(process.execPath, [...heap, ...extra, '--trace-gc', entry], { env: { ...process.env, PORT: String(port), HOST: '127.0.0.1', NUXT_DATABASE_URL: dbUrl, NUXT_DATA_DIR: dir, AUTH_ORIGIN: `${url}/api/auth` }, stdio: ['ignore', 'pipe', 'ignore'] })
 // "[pid:0x…]  41234 ms: Mark-Compact 180.2 (200.1) -> 95.3 (190.0) MB, …" (V8's --trace-gc line)
-const fullGcs: { at: number, liveMb: number }[] = []
+const fullGcs: { liveMb: number }[] = []
 let measuring = false
 let pending = ''
 proc.stdout!.setEncoding('utf8').on('data', (chunk: string) => {
@@ -39,7 +39,7 @@ proc.stdout!.setEncoding('utf8').on('data', (chunk: string) => {
   const lines = pending.split('\n'); pending = lines.pop()!
   for (const line of lines) {
     const m = line.match(/Mark-Compact(?: \(reduce\))? [\d.]+ \([\d.]+\) -> ([\d.]+) \([\d.]+\) MB/)
-    if (m && measuring) fullGcs.push({ at: Date.now(), liveMb: Number(m[1]) })
+    if (m && measuring) fullGcs.push({ liveMb: Number(m[1]) })
   }
 })
 for (let i = 0; i < 300; i++) { try { if ((await fetch(`${url}/api/v1/health`)).ok) break } catch { /* starting */ } await new Promise(r => setTimeout(r, 100)) }

@@ -5,6 +5,14 @@ import type { Viewer } from './auth'
 import { desc, eq } from 'drizzle-orm'
 import { useDb, schema } from './db'
 import { jsonLd, toCitable, type CitableVersion } from './citation'
+import { queryValidated } from './validation'
+import type { H3Event } from 'h3'
+
+const DETAIL_QUERY = { type: 'object', additionalProperties: false, properties: { records: { enum: ['full', 'summary'] } } }
+/** The `records` query parameter of the dataset and version routes (422 naming it when it is neither value). */
+export function recordDetailOf (event: H3Event): RecordDetail | undefined {
+  return queryValidated<{ records?: RecordDetail }>(event, DETAIL_QUERY, q => q).records
+}
 
 /** A published (or withdrawn) version in the shape the citation formats take. */
 export async function citableVersion (viewer: Viewer | null, id: number, versionNumber?: number): Promise<CitableVersion> {
