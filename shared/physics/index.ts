@@ -1,6 +1,7 @@
 /** The science core: pure functions, no I/O; used by the server and the browser alike. */
 export * from './constants'
 export * from './errors'
+export * from './bounds'
 export * from './units'
 export * from './rates'
 export * from './redox'

@@ -6,7 +6,8 @@
  * low temperature, where k itself underflows a double. Energies in eV, temperature in K, rates in s⁻¹.
  */
 import { BOLTZMANN_EV_PER_K, HBAR_EV_S, LN10 } from './constants'
-import { IssueCollector } from './errors'
+import { IssueCollector, PhysicsInputError } from './errors'
+import { checkBound, checkHuangRhys, MAX_HUANG_RHYS, MODEL_BOUNDS, MAX_VIBRONIC_INDEX, MAX_VIBRONIC_TERMS } from './bounds'
 
 /** Parameters of the classical Marcus expression. */
 export interface ClassicalParams {
@@ -43,28 +44,35 @@ const TAIL_EPSILON = 2 ** -54
 
 export function checkClassical (p: ClassicalParams, base = ''): void {
   const c = new IssueCollector()
-  c.positive(p.lambdaTotal, `${base}/lambdaTotal`, 'Reorganization energy λ')
-  c.positive(p.coupling, `${base}/coupling`, 'Electronic coupling V')
-  c.positive(p.temperatureK, `${base}/temperatureK`, 'Temperature')
+  checkBound(c, p.lambdaTotal, 'lambdaTotal', `${base}/lambdaTotal`)
+  checkBound(c, p.coupling, 'coupling', `${base}/coupling`)
+  checkBound(c, p.temperatureK, 'temperatureK', `${base}/temperatureK`)
   c.throwIfAny()
 }
 
 export function checkSemiclassical (p: SemiclassicalParams, base = ''): void {
   const c = new IssueCollector()
-  c.positive(p.lambdaSolvent, `${base}/lambdaSolvent`, 'Solvent reorganization energy λ_s')
-  c.nonNegative(p.lambdaInternal, `${base}/lambdaInternal`, 'Internal reorganization energy λ_i')
-  c.positive(p.vibrationEnergy, `${base}/vibrationEnergy`, 'Mode energy ħω')
-  c.positive(p.coupling, `${base}/coupling`, 'Electronic coupling V')
-  c.positive(p.temperatureK, `${base}/temperatureK`, 'Temperature')
+  checkBound(c, p.lambdaSolvent, 'lambdaSolvent', `${base}/lambdaSolvent`)
+  const li = checkBound(c, p.lambdaInternal, 'lambdaInternal', `${base}/lambdaInternal`)
+  const hw = checkBound(c, p.vibrationEnergy, 'vibrationEnergy', `${base}/vibrationEnergy`)
+  checkBound(c, p.coupling, 'coupling', `${base}/coupling`)
+  checkBound(c, p.temperatureK, 'temperatureK', `${base}/temperatureK`)
+  if (li && hw) checkHuangRhys(c, p.lambdaInternal, p.vibrationEnergy, `${base}/lambdaInternal`)
   c.throwIfAny()
 }
 
-function checkDrivingForces (dg: ArrayLike<number>, base = '/drivingForces'): void {
+export function checkDrivingForces (dg: ArrayLike<number>, base = '/drivingForces'): void {
   const c = new IssueCollector()
-  for (let i = 0; i < dg.length; i++) {
-    if (!Number.isFinite(dg[i])) c.add(`${base}/${i}`, 'Driving force must be a finite number')
+  const { min, max } = MODEL_BOUNDS.drivingForce
+  for (let i = 0; i < dg.length && c.issues.length < 20; i++) {
+    const v = dg[i]!
+    if (!(v >= min && v <= max)) checkBound(c, v, 'drivingForce', `${base}/${i}`) // the path is built only for a bad value
   }
   c.throwIfAny()
+}
+
+function budgetExceeded (what: string): never {
+  throw new PhysicsInputError([{ path: '/', message: `The vibronic sum would need ${what}; the inputs are outside what the model can evaluate` }])
 }
 
 /** ln of the golden-rule prefactor (2π/ħ) V² (4πλk_BT)^(-1/2), in ln(s⁻¹). */
@@ -179,6 +187,7 @@ function vibronicRun (dg: ArrayLike<number>, out: Float64Array, st: VibronicStat
     const base = c1 + c2 * x
     while (jStar > 0 && base - l1[jStar - 1]! + c3 * (jStar - 1) < 0) jStar--
     while (base - l1[jStar]! + c3 * jStar >= 0) {
+      if (jStar >= MAX_VIBRONIC_INDEX) budgetExceeded(`a dominant term beyond j = ${MAX_VIBRONIC_INDEX}`)
       if (++jStar >= cap) { tables.ensure(jStar); lw = tables.lnWeight; l1 = tables.lnJ1; us = tables.upStep; cap = lw.length - 2 }
     }
     const y = x + jStar * h
@@ -193,7 +202,7 @@ function vibronicRun (dg: ArrayLike<number>, out: Float64Array, st: VibronicStat
     for (;;) {
       t *= r
       sum += t
-      used++
+      if (++used > MAX_VIBRONIC_TERMS) budgetExceeded(`more than ${MAX_VIBRONIC_TERMS} terms`)
       if (++j >= cap) { tables.ensure(j); lw = tables.lnWeight; l1 = tables.lnJ1; us = tables.upStep; cap = lw.length - 2 }
       r *= q * us[j - 1]!
       if (t * r < TAIL_EPSILON * (1 - r) * sum) break
@@ -207,7 +216,7 @@ function vibronicRun (dg: ArrayLike<number>, out: Float64Array, st: VibronicStat
       for (;;) {
         t *= d
         sum += t
-        used++
+        if (++used > MAX_VIBRONIC_TERMS) budgetExceeded(`more than ${MAX_VIBRONIC_TERMS} terms`)
         if (--j === 0) break
         d *= q * us[j - 1]!
         if (t * d < TAIL_EPSILON * (1 - d) * sum) break
@@ -229,6 +238,8 @@ export function createSemiclassicalEvaluator (p: SemiclassicalParams): RateEvalu
   const kT = BOLTZMANN_EV_PER_K * p.temperatureK
   const h = p.vibrationEnergy
   const S = p.lambdaInternal / h
+  // Callers check the bounds (S ≤ 200); this guard keeps an unchecked caller from building huge tables.
+  if (!(S <= 5 * MAX_HUANG_RHYS)) budgetExceeded(`a Huang–Rhys factor of ${S.toPrecision(3)}`)
   const a = 4 * p.lambdaSolvent * kT
   const c3 = -2 * h * h / a
   const st: VibronicState = {

@@ -32,6 +32,14 @@ export function twoSphereSolventReorganization (inp: TwoSphereInput): number {
   if (inp.distance < inp.donorRadius + inp.acceptorRadius) {
     c.add('/distance', 'The spheres overlap: the distance must be at least the sum of the two radii')
   }
+  if (inp.refractiveIndex < 1) c.add('/refractiveIndex', 'Refractive index must be at least 1')
+  if (inp.staticPermittivity < 1) c.add('/staticPermittivity', 'Static permittivity must be at least 1')
+  c.throwIfAny()
+  // A static permittivity below the optical one (ε_s < n²) has no physical meaning for a dielectric
+  // at rest, and would give a negative λ_s: refuse rather than return it.
+  if (pekarFactor(inp.refractiveIndex, inp.staticPermittivity) <= 0) {
+    c.add('/staticPermittivity', `Static permittivity ε_s = ${inp.staticPermittivity} is not above n² = ${(inp.refractiveIndex ** 2).toFixed(4)}: the solvent term would be zero or negative; check the two values`)
+  }
   c.throwIfAny()
   const geometry = 1 / (2 * inp.donorRadius) + 1 / (2 * inp.acceptorRadius) - 1 / inp.distance
   return COULOMB_EV_ANGSTROM * geometry * pekarFactor(inp.refractiveIndex, inp.staticPermittivity)

@@ -34,6 +34,11 @@ describe('reorganization, lifetimes, quenching, analyses', () => {
     expect(twoSphereSolventReorganization({ donorRadius: 4, acceptorRadius: 4, distance: 10, refractiveIndex: 1.3442, staticPermittivity: 35.94 })).toBeCloseTo(1.13531, 5)
     expect(() => twoSphereSolventReorganization({ donorRadius: 6, acceptorRadius: 6, distance: 10, refractiveIndex: 1.3, staticPermittivity: 30 })).toThrow(/overlap/)
   })
+  it('two-sphere λ_s refuses n² ≥ ε_s (it used to return a negative λ_s)', () => {
+    // n = 1.5, ε_s = 2.0: n² = 2.25 > ε_s, so 1/n² − 1/ε_s < 0
+    expect(() => twoSphereSolventReorganization({ donorRadius: 4, acceptorRadius: 4, distance: 10, refractiveIndex: 1.5, staticPermittivity: 2 }))
+      .toThrow(/Static permittivity ε_s = 2 is not above n² = 2.2500/)
+  })
   it('k_ET from lifetimes: τ 0.5 ns, τ_ref 5 ns → 1.8e9 s⁻¹, yield 0.9 (SCIENCE.md)', () => {
     const k = rateFromLifetimes(0.5e-9, 5e-9)
     expect(k).toBeCloseTo(1.8e9, -3)

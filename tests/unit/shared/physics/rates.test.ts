@@ -3,6 +3,7 @@ import fc from 'fast-check'
 import jStat from 'jstat'
 import {
   activationFreeEnergy, classicalLog10Rates, classicalPeakRate, semiclassicalLog10Rates, semiclassicalTerms, PhysicsInputError,
+  createSemiclassicalEvaluator, MAX_HUANG_RHYS, MAX_VIBRONIC_TERMS,
   type SemiclassicalParams
 } from '../../../../shared/physics'
 import { BOLTZMANN_EV_PER_K, HBAR_EV_S } from '../../../../shared/physics/constants'
@@ -98,20 +99,52 @@ describe('semi-classical (Marcus–Levich–Jortner)', () => {
       expect(e).toBeInstanceOf(PhysicsInputError)
       expect((e as PhysicsInputError).issues.map(i => i.path)).toEqual(['/lambdaSolvent', '/lambdaInternal', '/vibrationEnergy', '/temperatureK'])
     }
-    expect(() => semiclassicalLog10Rates([0, Infinity], base)).toThrow('/drivingForces/1: Driving force must be a finite number')
+    expect(() => semiclassicalLog10Rates([0, Infinity], base)).toThrow('/drivingForces/1: Driving force ΔG° must be a finite number')
   })
-  it('log10 k stays finite over the whole valid input domain (property test, fast-check)', () => {
+  it('log10 k stays finite over the whole bounded input domain, with the term count under its budget (property test, fast-check)', () => {
     fc.assert(fc.property(
-      fc.double({ min: -6, max: 6, noNaN: true }),
-      fc.double({ min: 0.01, max: 4, noNaN: true }),
-      fc.double({ min: 0, max: 4, noNaN: true }),
-      fc.double({ min: 0.01, max: 0.5, noNaN: true }),
-      fc.double({ min: 1e-6, max: 0.5, noNaN: true }),
-      fc.double({ min: 1, max: 1000, noNaN: true }),
+      fc.double({ min: -10, max: 10, noNaN: true }),
+      fc.double({ min: 0.005, max: 5, noNaN: true }),
+      fc.double({ min: 0, max: 5, noNaN: true }),
+      fc.double({ min: 0.005, max: 1, noNaN: true }),
+      fc.double({ min: 1e-9, max: 1, noNaN: true }),
+      fc.double({ min: 1, max: 2000, noNaN: true }),
       (dg, ls, li, hw, V, T) => {
+        fc.pre(li / hw <= MAX_HUANG_RHYS)
         const r = semiclassicalLog10Rates([dg, -dg], { lambdaSolvent: ls, lambdaInternal: li, vibrationEnergy: hw, coupling: V, temperatureK: T })
-        return Number.isFinite(r.log10Rate[0]) && Number.isFinite(r.log10Rate[1]) && r.termsUsed >= 1
+        return Number.isFinite(r.log10Rate[0]) && Number.isFinite(r.log10Rate[1]) && r.termsUsed >= 1 && r.termsUsed <= MAX_VIBRONIC_TERMS
       }
     ), { numRuns: 400 })
+  })
+  it('the worst corners of the bounds stay far inside the term budget', () => {
+    // S = 200 with the softest mode, at both ends of ΔG°, coldest and hottest
+    for (const T of [1, 2000]) {
+      for (const [li, hw] of [[1, 0.005], [5, 0.025]] as const) {
+        const r = semiclassicalLog10Rates([-10, -5, 0, 10], { lambdaSolvent: 0.005, lambdaInternal: li, vibrationEnergy: hw, coupling: 1, temperatureK: T })
+        expect(r.termsUsed).toBeLessThan(MAX_VIBRONIC_TERMS / 4)
+        r.log10Rate.forEach(v => expect(Number.isFinite(v)).toBe(true))
+      }
+    }
+  })
+  it.each([
+    ['ΔG° = 1e300', [1e300, -1e300], {}, ['/drivingForces/0', '/drivingForces/1']],
+    ['ΔG° = −1e7', [-1e7], {}, ['/drivingForces/0']],
+    ['ħω = 1e-9 eV', [0], { vibrationEnergy: 1e-9 }, ['/vibrationEnergy']],
+    ['T = 1e-300 K', [0], { temperatureK: 1e-300 }, ['/temperatureK']],
+    ['V = 1e200 eV', [0], { coupling: 1e200 }, ['/coupling']],
+    ['S = λ_i/ħω above 200', [0], { lambdaInternal: 4, vibrationEnergy: 0.01 }, ['/lambdaInternal']]
+  ] as const)('refuses %s with the field named (they used to hang or answer nonsense)', (_n, dg, over, paths) => {
+    try {
+      semiclassicalLog10Rates(dg as unknown as number[], { ...base, ...over })
+      expect.unreachable()
+    } catch (e) {
+      expect(e).toBeInstanceOf(PhysicsInputError)
+      expect((e as PhysicsInputError).issues.map(i => i.path)).toEqual(paths)
+    }
+  })
+  it('an unchecked caller cannot make the sum run away: the term budget stops it', () => {
+    const ev = createSemiclassicalEvaluator({ ...base, lambdaSolvent: 0.005, vibrationEnergy: 0.005, lambdaInternal: 0.9 })
+    expect(() => ev.log10Rate(-1e300)).toThrow(/vibronic sum would need/)
+    expect(() => createSemiclassicalEvaluator({ ...base, vibrationEnergy: 1e-9 })).toThrow(/Huang–Rhys factor/)
   })
 })
