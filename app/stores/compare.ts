@@ -5,6 +5,7 @@
  */
 import { defineStore } from 'pinia'
 import type { ModelParams } from '~/components/plot/ModelControls.vue'
+import { MODEL_BOUNDS, MAX_HUANG_RHYS } from '#shared/physics'
 
 export interface OwnPoint { deltaG: number, log10Rate: number, err?: number, label: string }
 export type GroupBy = 'dataset' | 'solvent' | 'process' | 'temperature'
@@ -32,7 +33,14 @@ export const useCompareStore = defineStore('compare', () => {
     const num = (k: string, d: number) => { const n = Number(q[k]); return Number.isFinite(n) && q[k] !== undefined && q[k] !== '' ? n : d }
     if (typeof q.ids === 'string' && /^\d+(,\d+)*$/.test(q.ids)) recordIds.value = q.ids.split(',').map(Number)
     if (['dataset', 'solvent', 'process', 'temperature'].includes(String(q.group))) groupBy.value = q.group as GroupBy
-    params.value = { lambdaSolvent: num('ls', DEFAULT_PARAMS.lambdaSolvent), lambdaInternal: num('li', DEFAULT_PARAMS.lambdaInternal), vibrationEnergy: num('hw', DEFAULT_PARAMS.vibrationEnergy), coupling: num('v', DEFAULT_PARAMS.coupling), temperatureK: num('t', DEFAULT_PARAMS.temperatureK) }
+    const next = { lambdaSolvent: num('ls', DEFAULT_PARAMS.lambdaSolvent), lambdaInternal: num('li', DEFAULT_PARAMS.lambdaInternal), vibrationEnergy: num('hw', DEFAULT_PARAMS.vibrationEnergy), coupling: num('v', DEFAULT_PARAMS.coupling), temperatureK: num('t', DEFAULT_PARAMS.temperatureK) }
+    // a link with values outside the model's bounds falls back to the defaults for those values
+    for (const k of Object.keys(next) as (keyof ModelParams)[]) {
+      const b = MODEL_BOUNDS[k]
+      if (next[k] < b.min || next[k] > b.max) next[k] = DEFAULT_PARAMS[k]
+    }
+    if (next.lambdaInternal / next.vibrationEnergy > MAX_HUANG_RHYS) { next.lambdaInternal = DEFAULT_PARAMS.lambdaInternal; next.vibrationEnergy = DEFAULT_PARAMS.vibrationEnergy }
+    params.value = next
   }
   /**
    * Reads what this browser kept (after hydration: the server's empty state would otherwise win)

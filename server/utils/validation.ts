@@ -17,7 +17,7 @@ const addFormats = ((addFormatsModule as unknown as { default?: typeof addFormat
 let ajvInstance: InstanceType<typeof Ajv2020> | undefined
 export function useAjv () {
   if (!ajvInstance) {
-    ajvInstance = new Ajv2020({ allErrors: true, strict: true, strictRequired: false, allowUnionTypes: true, coerceTypes: false })
+    ajvInstance = new Ajv2020({ allErrors: true, verbose: true, strict: true, strictRequired: false, allowUnionTypes: true, coerceTypes: false })
     addFormats(ajvInstance)
     ajvInstance.addSchema(rateRecordSchema as object)
     ajvInstance.addSchema(datasetSchema as object)
@@ -58,6 +58,13 @@ export function ajvIssues (errors: ErrorObject[] | null | undefined, prefix = ''
     if (e.keyword === 'required') { path += `/${(e.params as { missingProperty: string }).missingProperty}`; message = 'is required' }
     if (e.keyword === 'additionalProperties') { path += `/${(e.params as { additionalProperty: string }).additionalProperty}`; message = 'is not a known field' }
     if (e.keyword === 'enum') message = `must be one of: ${(e.params as { allowedValues: unknown[] }).allowedValues.join(', ')}`
+    if (['minimum', 'maximum', 'exclusiveMinimum', 'exclusiveMaximum'].includes(e.keyword)) {
+      // a sentence with the field's own description (which states its unit and range), not ajv's "must be >= 1"
+      const limit = (e.params as { limit: number }).limit
+      const words = { minimum: 'at least', maximum: 'at most', exclusiveMinimum: 'greater than', exclusiveMaximum: 'less than' }[e.keyword as 'minimum']
+      const desc = (e.parentSchema as { description?: string } | undefined)?.description
+      message = `must be ${words} ${limit}${desc ? ` (${desc})` : ''}; got ${JSON.stringify(e.data)}`
+    }
     return { path: path || '/', message }
   })
 }
