@@ -85,6 +85,6 @@ describe('POST /api/v1/model/fit', () => {
     const r = await api(s.url, '/api/v1/model/fit', { method: 'POST', json: { model: 'classical', temperatureK: 0, points: [{ deltaG: 'a', log10Rate: 9 }, { log10Rate: 9 }], fixed: { lambdaFoo: 1 } } })
     expect(r.status).toBe(422)
     const paths = r.data.data.issues.map((i: { path: string }) => i.path)
-    expect(paths).toEqual(expect.arrayContaining(['/temperatureK', '/points/0/deltaG', '/points/1/deltaG', '/fixed']))
+    expect(paths).toEqual(expect.arrayContaining(['/temperatureK', '/points/0/deltaG', '/points/1/deltaG', '/fixed/lambdaFoo']))
   })
 })
