@@ -3,7 +3,7 @@
  * datasets whose records are generated from the semi-classical rate expression with noise.
  * Nothing here is real: names, labs and numbers are made up and every row is marked as demo data.
  */
-import { diffusionLimit, energyFromEv, rehmWeller, semiclassicalLog10Rates, timeToSeconds } from '../../shared/physics'
+import { BOLTZMANN_J_PER_K, diffusionLimit, drivingForceByProcess, energyFromEv, PLANCK_J_S, rehmWeller, semiclassicalLog10Rates, timeToSeconds } from '../../shared/physics'
 import { orcidFromDigits } from '../../shared/identifiers'
 import type { DatasetMetadataV1, Linkage, ProcessKind, RateRecordV1, TechniqueMethod } from '../../shared/records/types'
 
@@ -79,6 +79,12 @@ export const DEMO_SMILES: Record<string, string> = {
 
 interface Family {
   donors: string[]; acceptors: string[]; bridges?: string[]; classes: [string, string]
+  /** Class of particular acceptors where it differs from classes[1]. */
+  acceptorClasses?: Record<string, string>
+  /** Centre-to-centre distance (Å) each bridge sets; without it the distance is drawn from `distances`. */
+  bridgeDistances?: Record<string, number>
+  /** A frozen glass below its glass transition: its own static permittivity and refractive index. */
+  glass?: { name: string, permittivity: number, refractiveIndex: number }
   linkage: Linkage; process: ProcessKind; initialState: 'singlet' | 'triplet' | 'thermal'
   solvents: string[]; technique: TechniqueMethod; excitationNm?: number
   lambdaSolvent: number; lambdaInternal: number; vibrationEnergy: number; coupling: number
@@ -100,7 +106,9 @@ export interface DemoDataset {
 }
 
 const porph: Family = {
-  donors: ['ZnP', 'ZnP-tBu', 'H2P'], acceptors: ['C60', 'NDI', 'PDI'], bridges: ['phenylene', 'biphenylene', 'terphenylene'],
+  donors: ['ZnP', 'ZnP-tBu', 'H2P'], acceptors: ['C60', 'C60-pyrrolidine', 'C70'], bridges: ['phenylene', 'biphenylene', 'terphenylene'],
+  // each added phenylene adds about 4.3 Å (from memory); the distance follows the bridge, not chance
+  bridgeDistances: { phenylene: 11.6, biphenylene: 15.9, terphenylene: 20.2 },
   classes: ['porphyrin', 'fullerene'], linkage: 'covalent', process: 'charge-separation', initialState: 'singlet',
   solvents: ['benzonitrile', 'toluene', 'tetrahydrofuran'], technique: 'transient-absorption', excitationNm: 420,
   lambdaSolvent: 0.55, lambdaInternal: 0.25, vibrationEnergy: 0.18, coupling: 0.004, dgRange: [-1.6, -0.1],
@@ -113,18 +121,20 @@ export const DATASETS: DemoDataset[] = [
     family: { ...porph, count: 180 } },
   { key: 'demo-02', lab: 'faulkwood-ultrafast', versions: ['published'], title: 'Driving-force series of porphyrin–imide dyads in three solvents (demo)',
     description: 'Normal and inverted regions sampled by varying donor and acceptor substituents. ' + DEMO_NOTE, keywords: ['inverted region', 'imide'], license: 'CC-BY-4.0',
-    family: { ...porph, acceptors: ['NDI', 'PDI', 'PMI', 'NMI'], classes: ['porphyrin', 'imide'], dgRange: [-2.3, 0.1], distances: [11, 13], count: 520, lambdaSolvent: 0.7, lambdaInternal: 0.4, vibrationEnergy: 0.186 } },
+    family: { ...porph, acceptors: ['NDI', 'PDI', 'PMI', 'NMI'], classes: ['porphyrin', 'imide'], bridges: undefined, bridgeDistances: undefined, dgRange: [-2.3, 0.1], distances: [11, 13], count: 520, lambdaSolvent: 0.7, lambdaInternal: 0.4, vibrationEnergy: 0.186 } },
   { key: 'demo-03', lab: 'faulkwood-ultrafast', versions: ['draft'], title: 'Charge recombination in a 2-methyltetrahydrofuran glass at 77 K (demo)',
     description: 'Recombination of the radical-ion pair in frozen solvent. ' + DEMO_NOTE, keywords: ['low temperature', 'recombination'], license: 'CC-BY-4.0',
-    family: { ...porph, process: 'charge-recombination', initialState: 'thermal', solvents: ['2-methyltetrahydrofuran'], temperatures: [77], dgRange: [-2.0, -0.8], count: 90, lambdaSolvent: 0.35 } },
+    family: { ...porph, process: 'charge-recombination', initialState: 'thermal', solvents: ['2-methyltetrahydrofuran'], temperatures: [77], dgRange: [-2.0, -0.8], count: 90, lambdaSolvent: 0.35,
+      // below its glass transition the solvent's dipoles are frozen: ε_s falls toward n² (values from memory, approximate)
+      glass: { name: '2-methyltetrahydrofuran glass', permittivity: 2.6, refractiveIndex: 1.43 } } },
   { key: 'demo-04', lab: 'faulkwood-ultrafast', versions: ['submitted'], title: 'Triplet-state charge separation in zinc chlorin dyads (demo)',
     description: 'Slow triplet channel measured by nanosecond flash photolysis. ' + DEMO_NOTE, keywords: ['triplet', 'chlorin'], license: 'CC0-1.0',
-    family: { ...porph, donors: ['ZnChl', 'ZnChl-Me'], classes: ['chlorin', 'imide'], acceptors: ['NDI', 'PMI'], initialState: 'triplet', dgRange: [-0.9, -0.1], count: 140, coupling: 0.0008 } },
-  { key: 'demo-05', lab: 'orrel-solar-fuels', versions: ['published'], title: 'Bimolecular quenching of iridium photosensitizers by amine donors (demo)',
-    description: 'Stern–Volmer quenching constants; several approach the diffusion limit. ' + DEMO_NOTE, keywords: ['photoredox', 'quenching', 'diffusion limit'], license: 'CC-BY-4.0',
-    family: { donors: ['triethylamine', 'DABCO', 'N,N-dimethylaniline', 'tri-p-tolylamine'], acceptors: ['Ir(ppy)2(dtbbpy)+', 'Ir(dF-ppy)2(bpy)+', 'Ir(ppy)3'], classes: ['amine', 'iridium complex'],
-      linkage: 'bimolecular', process: 'charge-separation', initialState: 'triplet', solvents: ['acetonitrile', 'N,N-dimethylformamide', 'dichloromethane'], technique: 'steady-state-quenching', excitationNm: 450,
-      lambdaSolvent: 0.8, lambdaInternal: 0.2, vibrationEnergy: 0.17, coupling: 0.01, dgRange: [-1.2, 0.3], temperatures: [298.15], bimolecular: true, noise: 0.1, count: 300 } },
+    family: { ...porph, donors: ['ZnChl', 'ZnChl-Me'], classes: ['chlorin', 'imide'], acceptors: ['NDI', 'PMI'], bridges: undefined, bridgeDistances: undefined, distances: [10, 14], initialState: 'triplet', dgRange: [-0.9, -0.1], count: 140, coupling: 0.0008 } },
+  { key: 'demo-05', lab: 'orrel-solar-fuels', versions: ['published'], title: 'Reductive quenching of cationic iridium photosensitizers by amine donors (demo)',
+    description: 'Stern–Volmer quenching constants of the excited Ir(III) complexes by amines (the amine is oxidised, the complex reduced); the most exergonic approach the diffusion limit. ' + DEMO_NOTE, keywords: ['photoredox', 'quenching', 'diffusion limit'], license: 'CC-BY-4.0',
+    family: { donors: ['triethylamine', 'DABCO', 'N,N-dimethylaniline', 'tri-p-tolylamine'], acceptors: ['Ir(ppy)2(dtbbpy)+', 'Ir(dF(CF3)ppy)2(dtbbpy)+'], classes: ['amine', 'iridium complex'],
+      linkage: 'bimolecular', process: 'charge-shift', initialState: 'triplet', solvents: ['acetonitrile', 'N,N-dimethylformamide', 'dichloromethane'], technique: 'steady-state-quenching', excitationNm: 450,
+      lambdaSolvent: 0.8, lambdaInternal: 0.2, vibrationEnergy: 0.17, coupling: 0.01, dgRange: [-0.65, 0.25], temperatures: [298.15], bimolecular: true, noise: 0.1, count: 300 } },
   { key: 'demo-06', lab: 'orrel-solar-fuels', versions: ['published', 'submitted'], title: 'Ruthenium polypyridyl sensitizers with viologen acceptors (demo)',
     description: 'Intramolecular electron transfer in linked Ru–viologen assemblies. ' + DEMO_NOTE, keywords: ['ruthenium', 'viologen', 'solar fuels'], license: 'CC-BY-4.0',
     family: { donors: ['Ru(bpy)3-C2', 'Ru(dmb)3-C2', 'Ru(phen)3-C2'], acceptors: ['MV2+', 'BV2+'], classes: ['ruthenium complex', 'viologen'], linkage: 'covalent', process: 'charge-separation', initialState: 'triplet',
@@ -138,7 +148,7 @@ export const DATASETS: DemoDataset[] = [
       dgRange: [-0.7, 0.05], temperatures: [298.15], distances: [5, 6], noise: 0.12, count: 60 } },
   { key: 'demo-08', lab: 'orrel-solar-fuels', versions: ['draft'], title: 'Hole transfer in polymer–fullerene blend films (demo)',
     description: 'Hole transfer from fullerene anion to donor polymer in films. ' + DEMO_NOTE, keywords: ['organic photovoltaics', 'films'], license: 'CC-BY-4.0',
-    family: { donors: ['PBT-x polymer', 'PTV-y polymer'], acceptors: ['PC71BM', 'ITIC-like NFA'], classes: ['polymer', 'fullerene'], linkage: 'other', process: 'hole-transfer', initialState: 'singlet',
+    family: { donors: ['PBT-x polymer', 'PTV-y polymer'], acceptors: ['PC71BM', 'ITIC-like NFA'], classes: ['polymer', 'fullerene'], acceptorClasses: { 'ITIC-like NFA': 'non-fullerene acceptor' }, linkage: 'other', process: 'hole-transfer', initialState: 'singlet',
       solvents: ['film'], technique: 'microwave-conductivity', excitationNm: 600, lambdaSolvent: 0.2, lambdaInternal: 0.15, vibrationEnergy: 0.17, coupling: 0.008,
       dgRange: [-0.6, -0.05], temperatures: [298.15], noise: 0.2, count: 80 } },
   { key: 'demo-09', lab: 'delacombe-bio-et', versions: ['published'], title: 'Ruthenium-labelled blue copper protein series (demo)',
@@ -159,7 +169,7 @@ export const DATASETS: DemoDataset[] = [
   { key: 'demo-12', lab: 'delacombe-bio-et', versions: ['published'], title: 'Temperature series of a rigid donor–bridge–acceptor molecule, 200–340 K (demo)',
     description: 'Rates at fixed driving force from 200 to 340 K for Arrhenius and Marcus analyses. ' + DEMO_NOTE, keywords: ['temperature dependence', 'activation'], license: 'CC-BY-4.0',
     family: { donors: ['dimethoxynaphthalene'], acceptors: ['dicyanovinyl'], bridges: ['norbornylogous bridge'], classes: ['naphthalene', 'nitrile'], linkage: 'covalent', process: 'charge-separation', initialState: 'singlet',
-      solvents: ['butyronitrile', 'tetrahydrofuran'], technique: 'tcspc', excitationNm: 320, lambdaSolvent: 0.8, lambdaInternal: 0.3, vibrationEnergy: 0.18, coupling: 0.002,
+      solvents: ['butyronitrile', '2-methyltetrahydrofuran'], technique: 'tcspc', excitationNm: 320, lambdaSolvent: 0.8, lambdaInternal: 0.3, vibrationEnergy: 0.18, coupling: 0.002,
       dgRange: [-0.45, -0.25], temperatures: [200, 220, 240, 260, 280, 298.15, 320, 340], distances: [10, 11], noise: 0.08, count: 200 } }
 ]
 
@@ -175,14 +185,22 @@ export function demoRecords (ds: DemoDataset, versionIndex: number): RateRecordV
     const solvent = SOLVENTS.find(s => s.name === solventName)
     const T = r.pick(f.temperatures)
     const dg = f.dgRange[0] + (f.dgRange[1] - f.dgRange[0]) * r.next()
-    const R = f.distances ? f.distances[0] + (f.distances[1] - f.distances[0]) * r.next() : undefined
+    const bridge = f.bridges ? r.pick(f.bridges) : undefined
+    const R = bridge && f.bridgeDistances ? f.bridgeDistances[bridge]! + 0.4 * (r.next() - 0.5)
+      : f.distances ? f.distances[0] + (f.distances[1] - f.distances[0]) * r.next() : undefined
+    const R0 = f.bridgeDistances ? Math.min(...Object.values(f.bridgeDistances)) : f.distances?.[0]
     let V = f.coupling
-    if (f.beta && R !== undefined && f.distances) V *= Math.exp(-f.beta * (R - f.distances[0]) / 2)
+    if (f.beta && R !== undefined && R0 !== undefined) V *= Math.exp(-f.beta * (R - R0) / 2)
     // Solvent polarity moves λ_s with the Pekar factor relative to acetonitrile's 0.5282.
-    const pekar = solvent ? 1 / solvent.refractiveIndex ** 2 - 1 / solvent.permittivity : 0.3
+    const medium = f.glass ?? solvent
+    const pekar = medium ? 1 / medium.refractiveIndex ** 2 - 1 / medium.permittivity : 0.3
     const ls = Math.max(0.08, f.lambdaSolvent * (0.35 + 0.65 * pekar / 0.5282))
     const model = semiclassicalLog10Rates([dg], { lambdaSolvent: ls, lambdaInternal: f.lambdaInternal, vibrationEnergy: f.vibrationEnergy, coupling: V, temperatureK: T }).log10Rate[0]!
+    // A non-adiabatic rate stays below the activationless ceiling k_BT/h: noise is drawn again above it.
+    const ceiling = Math.log10(0.5 * BOLTZMANN_J_PER_K * T / PLANCK_J_S)
     let log10k = model + f.noise * r.gauss()
+    for (let tries = 0; log10k > ceiling && tries < 20; tries++) log10k = model + f.noise * r.gauss()
+    log10k = Math.min(log10k, ceiling)
     let kind: 'unimolecular' | 'bimolecular' = 'unimolecular'
     if (f.bimolecular) {
       // k_q = k_diff k_act / (k_diff + k_act) with an invented encounter constant of 0.5 M⁻¹.
@@ -193,19 +211,20 @@ export function demoRecords (ds: DemoDataset, versionIndex: number): RateRecordV
     }
     const k = 10 ** log10k
     const donor = r.pick(f.donors); const acceptor = r.pick(f.acceptors)
-    const bridge = f.bridges ? r.pick(f.bridges) : undefined
     const rec: RateRecordV1 = {
       system: {
         donor: { name: donor, class: f.classes[0], ...(DEMO_SMILES[donor] ? { smiles: DEMO_SMILES[donor] } : {}) },
-        acceptor: { name: acceptor, class: f.classes[1], ...(DEMO_SMILES[acceptor] ? { smiles: DEMO_SMILES[acceptor] } : {}) },
+        acceptor: { name: acceptor, class: f.acceptorClasses?.[acceptor] ?? f.classes[1], ...(DEMO_SMILES[acceptor] ? { smiles: DEMO_SMILES[acceptor] } : {}) },
         ...(bridge ? { bridge: { name: bridge } } : {}),
         linkage: f.linkage
       },
       process: f.process,
       initialState: f.initialState,
-      medium: solvent
-        ? { solvent: solvent.name, permittivity: solvent.permittivity, refractiveIndex: solvent.refractiveIndex }
-        : { matrix: 'spin-coated film' },
+      medium: f.glass
+        ? { matrix: f.glass.name, permittivity: f.glass.permittivity, refractiveIndex: f.glass.refractiveIndex }
+        : solvent
+          ? { solvent: solvent.name, permittivity: solvent.permittivity, refractiveIndex: solvent.refractiveIndex }
+          : { matrix: 'spin-coated film' },
       temperatureK: T,
       ...(R !== undefined ? { geometry: { centerToCenterAngstrom: round(R, 2) } } : {}),
       rate: { value: sig(k, 4), uncertainty: sig(k * (10 ** f.noise - 1), 2), kind, method: 'direct' },
@@ -216,16 +235,20 @@ export function demoRecords (ds: DemoDataset, versionIndex: number): RateRecordV
       location: `demo table ${1 + (i % 3)}, row ${i + 1}`
     }
     if (!rec.reportedParameters) delete rec.reportedParameters
-    // Every fourth record: the driving force came from (invented) potentials through Rehm–Weller.
-    if (i % 4 === 1 && solvent && R !== undefined && f.initialState !== 'thermal') {
-      const e00 = 2.0 + 0.3 * r.next()
+    // Every fourth record: the driving force came from (invented) potentials, derived by process
+    // (Rehm–Weller for charge separation, −(ΔG°_CS + E₀₀) for recombination, no ion-pair term for a charge shift).
+    const eps = f.glass?.permittivity ?? solvent?.permittivity
+    if (i % 4 === 1 && eps !== undefined && R !== undefined && f.process !== 'other' && (f.initialState !== 'thermal' || f.process === 'charge-recombination')) {
+      const e00 = f.process === 'charge-recombination' ? 0 : round(2.0 + 0.3 * r.next(), 3)
       const eOx = round(0.6 + 0.6 * r.next(), 3)
-      const coulomb = rehmWeller({ donorOxidationPotential: 0, donorReference: 'SCE', acceptorReductionPotential: 0, acceptorReference: 'SCE', excitationEnergy: 0, distance: round(R, 2), solventPermittivity: solvent.permittivity }).terms.coulomb
-      // ΔG° = E_ox − E_red − E₀₀ + w  ⇒  E_red = E_ox − E₀₀ + w − ΔG°
-      const eRed = round(eOx - e00 + coulomb - dg, 3)
-      const redox = { donorOxidationPotential: eOx, donorReference: 'SCE', acceptorReductionPotential: eRed, acceptorReference: 'SCE', excitationEnergy: round(e00, 3) }
-      const rw = rehmWeller({ ...redox, distance: round(R, 2), solventPermittivity: solvent.permittivity })
-      rec.drivingForce = { value: round(rw.deltaG, 4), uncertainty: 0.08, method: 'redox-potentials', redox }
+      const coulomb = rehmWeller({ donorOxidationPotential: 0, donorReference: 'SCE', acceptorReductionPotential: 0, acceptorReference: 'SCE', excitationEnergy: 0, distance: round(R, 2), solventPermittivity: eps }).terms.coulomb
+      // invert the process's formula for E_red so that the derivation gives the drawn ΔG°
+      const eRed = round(f.process === 'charge-separation' ? eOx - e00 + coulomb - dg
+        : f.process === 'charge-recombination' ? eOx + coulomb + dg
+          : eOx - e00 - dg, 3)
+      const redox = { donorOxidationPotential: eOx, donorReference: 'SCE', acceptorReductionPotential: eRed, acceptorReference: 'SCE', excitationEnergy: e00 }
+      const d = drivingForceByProcess(f.process, { ...redox, distance: round(R, 2), solventPermittivity: eps })
+      rec.drivingForce = { value: round(d.deltaG, 4), uncertainty: 0.08, method: 'redox-potentials', redox }
     }
     // Every fifth unimolecular record: the rate was derived from lifetimes with and without acceptor.
     if (i % 5 === 2 && kind === 'unimolecular' && k < 5e11 && k > 1e5) {

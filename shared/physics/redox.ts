@@ -3,7 +3,7 @@
  * charge-recombination driving force. Potentials in V, energies in eV, distances in Å.
  */
 import { COULOMB_EV_ANGSTROM } from './constants'
-import { IssueCollector } from './errors'
+import { IssueCollector, PhysicsInputError } from './errors'
 
 export const REFERENCE_ELECTRODES = ['SCE', 'SHE', 'NHE', 'Ag/AgCl', 'Ag/Ag+', 'Fc+/Fc', 'other'] as const
 export type ReferenceElectrode = typeof REFERENCE_ELECTRODES[number]
@@ -92,4 +92,48 @@ export function chargeRecombinationDrivingForce (deltaGChargeSeparation: number,
 function normalizeReference (r: string): string {
   const s = String(r ?? '').trim().toLowerCase().replace(/\s+/g, '')
   return s === 'nhe' ? 'she' : s // NHE and SHE are treated as one scale (they differ by < 1 mV)
+}
+
+/** Processes as the record format names them. */
+export type DerivationProcess = 'charge-separation' | 'charge-recombination' | 'charge-shift' | 'hole-transfer' | 'other'
+
+export const CHARGE_RECOMBINATION_FORMULA =
+  'ΔG°_CR = −(ΔG°_CS + E₀₀) = −(e[E_ox(D⁺/D) − E_red(A/A⁻)] − e²/(4πε₀ε_sR) + (e²/8πε₀)(1/r_D + 1/r_A)(1/ε_s − 1/ε_ref)); E₀₀ cancels'
+export const CHARGE_SHIFT_FORMULA =
+  'ΔG° = e[E_ox − E_red] − E₀₀ (no ion pair is formed or destroyed: no Coulomb or Born term; E₀₀ = 0 for a thermal step)'
+
+export interface ProcessDerivation extends RehmWellerResult {
+  process: DerivationProcess
+  /** Short name of the derivation, for messages. */
+  name: string
+}
+
+/**
+ * ΔG° from redox potentials by process — the one function that the upload, the entry form, the API's
+ * check and the record page use (SCIENCE.md):
+ * - charge separation: Rehm–Weller with the ion-pair (Coulomb) and Born terms;
+ * - charge recombination to the ground state: −(ΔG°_CS + E₀₀), in which E₀₀ cancels (not needed);
+ * - charge shift and hole/electron transfer between ions: e[E_ox − E_red] − E₀₀, no ion-pair term.
+ * 'other' has no defined derivation: the caller must give ΔG° itself.
+ */
+export function drivingForceByProcess (process: string | undefined, inp: RehmWellerInput): ProcessDerivation {
+  if (process !== 'charge-separation' && process !== 'charge-recombination' && process !== 'charge-shift' && process !== 'hole-transfer') {
+    throw new PhysicsInputError([{ path: '/process', message: `ΔG° cannot be derived from potentials for process "${process ?? ''}": give ΔG° directly, or set the process to charge-separation, charge-recombination, charge-shift or hole-transfer` }])
+  }
+  if (process === 'charge-separation') return { ...rehmWeller(inp), process, name: 'Rehm–Weller for charge separation' }
+  if (process === 'charge-recombination') {
+    // E₀₀ cancels: evaluate the charge-separation terms without it, then change sign.
+    const cs = rehmWeller({ ...inp, excitationEnergy: 0 })
+    const t = cs.terms
+    return {
+      process,
+      name: 'charge recombination, −(ΔG°_CS + E₀₀)',
+      deltaG: -(t.redox + t.coulomb + t.born),
+      terms: { redox: -t.redox, excitation: 0, coulomb: -t.coulomb, born: -t.born },
+      formula: CHARGE_RECOMBINATION_FORMULA
+    }
+  }
+  // charge shift / hole transfer: no work terms; the permittivities and radii play no part
+  const r = rehmWeller({ ...inp, distance: undefined, referencePermittivity: undefined, donorRadius: undefined, acceptorRadius: undefined })
+  return { process, name: `${process}, e[E_ox − E_red] − E₀₀ without an ion-pair term`, deltaG: r.terms.redox + r.terms.excitation, terms: { ...r.terms, coulomb: 0, born: 0 }, formula: CHARGE_SHIFT_FORMULA }
 }

@@ -7,7 +7,7 @@
 import type { ErrorObject } from 'ajv'
 import {
   convertEnergy, diffusionLimit, distanceToAngstrom, energyToEv, potentialToVolt, rateFromLifetimes, rateToPerSecond,
-  rehmWeller, temperatureToK, timeToSeconds, wavelengthNmToEv, WAVENUMBER_PER_EV, LIFETIME_FORMULA, REHM_WELLER_FORMULA,
+  drivingForceByProcess, temperatureToK, timeToSeconds, wavelengthNmToEv, WAVENUMBER_PER_EV, LIFETIME_FORMULA,
   PhysicsInputError, type DistanceUnit, type EnergyUnit, type PotentialUnit, type RateUnit, type TemperatureUnit, type TimeUnit
 } from '../physics'
 import { COLUMN_BY_KEY, columnForPointer } from './columns'
@@ -151,11 +151,11 @@ export function rowToRecord (cells: Record<string, Cell>, units: Record<string, 
       if (eps === undefined) issue('permittivity', 'is needed to compute ΔG° from potentials (name a solvent from the table or give ε)')
       else {
         try {
-          const rw = rehmWeller({ ...redox as never, distance: geometry.centerToCenterAngstrom, solventPermittivity: eps })
+          const rw = drivingForceByProcess(rec.process, { ...redox as never, distance: geometry.centerToCenterAngstrom, solventPermittivity: eps })
           rec.drivingForce = { value: rw.deltaG, method: 'redox-potentials', redox }
-          derived.push({ field: 'delta_g', formula: REHM_WELLER_FORMULA, value: rw.deltaG, unit: 'eV' })
+          derived.push({ field: 'delta_g', formula: rw.formula, value: rw.deltaG, unit: 'eV' })
         } catch (e) {
-          for (const i of (e as PhysicsInputError).issues ?? []) issue(i.path === '/acceptorReference' ? 'acceptor_reference' : 'donor_oxidation_potential', i.message)
+          for (const i of (e as PhysicsInputError).issues ?? []) issue(i.path === '/acceptorReference' ? 'acceptor_reference' : i.path === '/process' ? 'process' : 'donor_oxidation_potential', i.message)
         }
       }
     } else if (rec.drivingForce) rec.drivingForce.redox = redox
@@ -198,10 +198,10 @@ export function checkRecord (r: RateRecordV1, ctx: IngestContext): { issues: Row
       if (eps === undefined) at(issues, '/medium/permittivity', 'is needed to check ΔG° against the potentials')
       else {
         try {
-          const rw = rehmWeller({ ...df.redox, distance: r.geometry?.centerToCenterAngstrom, solventPermittivity: eps })
-          if (Math.abs(rw.deltaG - df.value) > 0.005) at(issues, '/drivingForce/value', `does not match the potentials: Rehm–Weller gives ${rw.deltaG.toFixed(3)} eV`)
+          const rw = drivingForceByProcess(r.process, { ...df.redox, distance: r.geometry?.centerToCenterAngstrom, solventPermittivity: eps })
+          if (Math.abs(rw.deltaG - df.value) > 0.005) at(issues, '/drivingForce/value', `does not match the potentials: ${rw.name} gives ${rw.deltaG.toFixed(3)} eV`)
         } catch (e) {
-          for (const i of (e as PhysicsInputError).issues ?? []) at(issues, '/drivingForce/redox' + i.path, i.message)
+          for (const i of (e as PhysicsInputError).issues ?? []) at(issues, i.path === '/process' ? '/process' : '/drivingForce/redox' + i.path, i.message)
         }
       }
     }

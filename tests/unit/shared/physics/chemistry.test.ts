@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest'
 import {
   chargeRecombinationDrivingForce, diffusionLimit, distanceDecay, rateFromLifetimes, rehmWeller, sternVolmer, temperatureSeries,
-  transferYield, twoSphereSolventReorganization, PhysicsInputError, BOLTZMANN_EV_PER_K
+  transferYield, twoSphereSolventReorganization, PhysicsInputError, BOLTZMANN_EV_PER_K, drivingForceByProcess
 } from '../../../../shared/physics'
 
 describe('Rehm–Weller driving force', () => {
@@ -67,5 +67,23 @@ describe('reorganization, lifetimes, quenching, analyses', () => {
     expect(r.marcus.activationFreeEnergy).toBeCloseTo(0.2, 10)
     // d ln k / d(1/T) = T/2 − E/k_B: the T^-½ prefactor lowers the apparent Arrhenius energy by ≈ k_B T̄/2
     expect(r.arrhenius.activationEnergy).toBeCloseTo(0.2 - BOLTZMANN_EV_PER_K * 280 / 2, 2)
+  })
+})
+
+describe('ΔG° from potentials by process (SCIENCE.md worked checks: E_ox 0.85 V, E_red −0.55 V, E₀₀ 2.10 eV, R 10 Å, ε 35.94)', () => {
+  const inp = { donorOxidationPotential: 0.85, donorReference: 'SCE', acceptorReductionPotential: -0.55, acceptorReference: 'SCE', excitationEnergy: 2.1, distance: 10, solventPermittivity: 35.94 }
+  it('charge separation: Rehm–Weller with the ion-pair term → −0.74007 eV', () => {
+    expect(drivingForceByProcess('charge-separation', inp).deltaG).toBeCloseTo(-0.74007, 5)
+  })
+  it('charge recombination: −(ΔG°_CS + E₀₀) → −1.35993 eV, with or without E₀₀ given', () => {
+    expect(drivingForceByProcess('charge-recombination', inp).deltaG).toBeCloseTo(-1.35993, 5)
+    expect(drivingForceByProcess('charge-recombination', { ...inp, excitationEnergy: 0 }).deltaG).toBeCloseTo(-1.35993, 5)
+  })
+  it('charge shift and hole transfer: no ion-pair term → −0.70 eV', () => {
+    expect(drivingForceByProcess('charge-shift', inp).deltaG).toBeCloseTo(-0.70, 10)
+    expect(drivingForceByProcess('hole-transfer', inp).deltaG).toBeCloseTo(-0.70, 10)
+  })
+  it('"other" has no derivation: the field is named', () => {
+    expect(() => drivingForceByProcess('other', inp)).toThrow(/cannot be derived from potentials for process "other"/)
   })
 })
