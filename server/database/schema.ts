@@ -267,3 +267,12 @@ export const versionRelations = relations(datasetVersions, ({ one, many }) => ({
 export const recordRelations = relations(rateRecords, ({ one }) => ({
   version: one(datasetVersions, { fields: [rateRecords.versionId], references: [datasetVersions.id] })
 }))
+
+// ── data migrations ─────────────────────────────────────────────────────────────────────
+/** Data changes run once at start after the SQL migrations (e.g. re-deriving values by a corrected rule). */
+export const dataMigrations = sqliteTable('data_migration', {
+  name: text('name').primaryKey(),
+  appliedAt: integer('applied_at', { mode: 'timestamp_ms' }).notNull(),
+  /** What it changed, for the audit: counts and ids. */
+  detail: text('detail', { mode: 'json' }).$type<Record<string, unknown>>().notNull().default(sql`'{}'`)
+})

@@ -88,7 +88,12 @@ function databaseConfig (): { url: string, authToken: string } {
 export async function useDb (): Promise<Db> {
   if (!ready) {
     const { url, authToken } = databaseConfig()
-    ready = openDatabase(url, authToken)
+    ready = openDatabase(url, authToken).then(async (opened) => {
+      // data migrations need the domain helpers, which import this module: loaded here, not at the top
+      const { applyDataMigrations } = await import('./derivations')
+      await applyDataMigrations(opened.db)
+      return opened
+    })
     ready.catch(() => { ready = undefined })
   }
   return (await ready).db

@@ -70,6 +70,10 @@ const CASES: Case[] = [
     expect: { ...all(403), visitor: 401, curatorOfA: 200, curatorElsewhere: 200, admin: 200 } },
   { name: 'add a solvent', method: 'POST', path: () => '/api/v1/solvents', body: r => ({ name: `test solvent ${r}`, permittivity: 10, refractiveIndex: 1.4, source: 'invented for a test' }),
     expect: { ...all(403), visitor: 401, curatorOfA: 201, curatorElsewhere: 201, admin: 201 } },
+  { name: 'derivation report', method: 'GET', path: () => '/api/v1/review/derivations', expect: { ...all(403), visitor: 401, curatorOfA: 200, curatorElsewhere: 200, admin: 200 } },
+  // nothing differs in the demo's published data: curators get 409, the dataset's own lab's curator 403
+  { name: 'start a derivation correction', method: 'POST', path: () => `/api/v1/review/derivations/${ids.publishedA}`,
+    expect: { ...all(403), visitor: 401, curatorOfA: 403, curatorElsewhere: 409, admin: 409 } },
   { name: 'create a lab', method: 'POST', path: () => '/api/v1/labs', body: r => ({ slug: `lab-${r.toLowerCase()}`, name: `Lab for ${r}` }), expect: adminOnly(201) },
   { name: 'list users', method: 'GET', path: () => '/api/v1/admin/users', expect: adminOnly() },
   { name: 'change a role', method: 'PATCH', path: () => '/api/v1/admin/users/nobody', body: () => ({ role: 'curator' }), expect: { ...adminOnly(), admin: 404 } },

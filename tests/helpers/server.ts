@@ -32,13 +32,14 @@ export interface TestServer {
   stop: () => Promise<void>
 }
 
-export async function startServer (opts: { seed?: boolean, env?: Record<string, string> } = {}): Promise<TestServer> {
+export async function startServer (opts: { seed?: boolean, env?: Record<string, string>, beforeStart?: (dbUrl: string) => Promise<void> } = {}): Promise<TestServer> {
   const dir = mkdtempSync(join(tmpdir(), 'crosspoint-test-'))
   const dbUrl = `file:${join(dir, 'test.db')}`
   if (opts.seed) {
     const { seed } = await import('../../scripts/seed')
     await seed(dbUrl)
   }
+  if (opts.beforeStart) await opts.beforeStart(dbUrl)
   const port = await freePort()
   const url = `http://127.0.0.1:${port}`
   const env: Record<string, string> = {
