@@ -59,6 +59,8 @@ export interface DerivationReportItem {
   versionNumber: number
   doi: string | null
   differing: number
+  /** A newer version already under way (a draft, submitted or returned): the correction goes there, not into another one. */
+  newerVersion: { versionNumber: number, state: string } | null
   examples: { recordId: number, position: number, process: string, stored: number, derived: number }[]
 }
 
@@ -75,9 +77,17 @@ export async function derivationReport (db: Db): Promise<DerivationReportItem[]>
     const r = rederive(row.data as unknown as RateRecordV1)
     if (!r) continue
     let item = out.get(row.datasetId)
-    if (!item) { item = { datasetId: row.datasetId, title: row.title, labName: row.labName, versionNumber: row.versionNumber, doi: row.doi, differing: 0, examples: [] }; out.set(row.datasetId, item) }
+    if (!item) { item = { datasetId: row.datasetId, title: row.title, labName: row.labName, versionNumber: row.versionNumber, doi: row.doi, differing: 0, newerVersion: null, examples: [] }; out.set(row.datasetId, item) }
     item.differing++
     if (item.examples.length < 5) item.examples.push({ recordId: row.id, position: row.position, process: (row.data as { process: string }).process, stored: r.stored, derived: r.derived })
+  }
+  if (out.size) {
+    const newer = await db.select({ datasetId: versions.datasetId, versionNumber: versions.versionNumber, state: versions.state }).from(versions)
+      .where(and(inArray(versions.datasetId, [...out.keys()]), inArray(versions.state, ['draft', 'submitted', 'returned'])))
+    for (const n of newer) {
+      const item = out.get(n.datasetId)!
+      if (n.versionNumber > item.versionNumber) item.newerVersion = { versionNumber: n.versionNumber, state: n.state }
+    }
   }
   return [...out.values()].sort((a, b) => b.differing - a.differing)
 }
