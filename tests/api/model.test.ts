@@ -75,6 +75,16 @@ describe('POST /api/v1/model/fit', () => {
     expect(r.data.residuals).toHaveLength(20)
     expect(typeof r.data.chiSquaredReduced).toBe('number')
   })
+  it('takes temperatureK per point (API.md second wave) and answers status and atBound', async () => {
+    const Ts = [250, 275, 300, 325]
+    const points = [-1.3, -0.9, -0.6, -0.3].flatMap(d => Ts.map(T => ({ deltaG: d, temperatureK: T, log10Rate: classicalLog10Rates([d], { lambdaTotal: 1.1, coupling: 0.002, temperatureK: T }).log10Rate[0]! })))
+    const r = await api(s.url, '/api/v1/model/fit', { method: 'POST', json: { model: 'classical', temperatureK: 298.15, points } })
+    expect(r.status).toBe(200)
+    expect(r.data.status).toBe('converged')
+    expect(r.data.atBound).toEqual([])
+    expect(r.data.temperatureRangeK).toEqual([250, 325])
+    expect(r.data.parameters.lambdaTotal.value).toBeCloseTo(1.1, 5)
+  })
   it('422 for an under-determined fit, with the reason', async () => {
     const r = await api(s.url, '/api/v1/model/fit', { method: 'POST', json: { model: 'classical', temperatureK: 295, points: [{ deltaG: -1, log10Rate: 9 }] } })
     expect(r.status).toBe(422)
