@@ -3,7 +3,10 @@
  * BOM; comma, semicolon or tab), XLSX (exceljs; formulas and error cells refused) and JSON records.
  */
 import Papa from 'papaparse'
+import { isUtf8 } from 'node:buffer'
+import { Readable } from 'node:stream'
 import ExcelJS from 'exceljs'
+import { Unzip, UnzipInflate } from 'fflate'
 import type { RowIssue } from '../../../shared/records/ingest'
 
 export interface Table { headers: string[], rows: (string | number | null)[][] }
@@ -22,18 +25,38 @@ export function detectKind (name: string, mediaType?: string): 'csv' | 'xlsx' | 
   throw new FileProblem(415, `Cannot read "${name}": upload a .csv, .xlsx or .json file`, [{ path: '/file', message: 'unsupported file type' }])
 }
 
+/**
+ * UTF-8 text of the upload. Valid files take Node's native check (buffer.isUtf8) and one decode; for an
+ * invalid one, one linear pass finds the first bad byte and its line — neither TextDecoder nor isUtf8
+ * says where the problem is, hence the small validator below (RFC 3629 well-formed sequences).
+ */
 export function decodeUtf8 (buf: Uint8Array): string {
-  try {
-    return new TextDecoder('utf-8', { fatal: true }).decode(buf).replace(/^\uFEFF/, '')
-  } catch {
-    // find the first bad line for the message
-    let line = 1
-    for (let i = 0; i < buf.length; i++) {
-      if (buf[i] === 10) line++
-      try { new TextDecoder('utf-8', { fatal: true }).decode(buf.subarray(0, i + 1)) } catch { if (buf[i]! >= 0x80) break }
+  if (isUtf8(buf)) return new TextDecoder('utf-8').decode(buf).replace(/^\uFEFF/, '')
+  const at = firstInvalidUtf8(buf)
+  let line = 1
+  for (let i = 0; i < at; i++) if (buf[i] === 10) line++
+  throw new FileProblem(422, `The file is not UTF-8 text (first bad byte at byte ${at + 1}, line ${line}); save it as "CSV UTF-8"`, [{ row: line, path: '/file', message: 'not UTF-8' }])
+}
+
+/** Offset of the first byte that does not belong to a well-formed UTF-8 sequence (RFC 3629, table 3-7 of Unicode); buf.length if none. */
+export function firstInvalidUtf8 (buf: Uint8Array): number {
+  const n = buf.length
+  let i = 0
+  while (i < n) {
+    const b = buf[i]!
+    if (b < 0x80) { i++; continue }
+    let need: number; let lo = 0x80; let hi = 0xBF
+    if (b >= 0xC2 && b <= 0xDF) need = 1
+    else if (b >= 0xE0 && b <= 0xEF) { need = 2; if (b === 0xE0) lo = 0xA0; if (b === 0xED) hi = 0x9F }
+    else if (b >= 0xF0 && b <= 0xF4) { need = 3; if (b === 0xF0) lo = 0x90; if (b === 0xF4) hi = 0x8F }
+    else return i
+    for (let k = 1; k <= need; k++) {
+      const c = buf[i + k]
+      if (c === undefined || c < (k === 1 ? lo : 0x80) || c > (k === 1 ? hi : 0xBF)) return i
     }
-    throw new FileProblem(422, `The file is not UTF-8 text (first bad byte near line ${line}); save it as "CSV UTF-8"`, [{ row: line, path: '/file', message: 'not UTF-8' }])
+    i += need + 1
   }
+  return n
 }
 
 export function parseCsv (buf: Uint8Array): Table {
@@ -46,35 +69,89 @@ export function parseCsv (buf: Uint8Array): Table {
   return { headers, rows }
 }
 
-export async function parseXlsx (buf: Uint8Array): Promise<Table> {
-  const wb = new ExcelJS.Workbook()
-  try { await wb.xlsx.load(buf as never) } catch { throw new FileProblem(422, 'The file is not a readable XLSX workbook', [{ path: '/file', message: 'not XLSX' }]) }
-  const ws = wb.getWorksheet('records') ?? wb.worksheets[0]
-  if (!ws) throw new FileProblem(422, 'The workbook has no sheet', [{ path: '/file', message: 'no sheet' }])
-  const issues: RowIssue[] = []
-  const out: (string | number | null)[][] = []
-  const width = ws.getRow(1).cellCount
-  ws.eachRow({ includeEmpty: false }, (row, rowNumber) => {
-    const vals: (string | number | null)[] = []
-    for (let c = 1; c <= Math.max(width, row.cellCount); c++) {
-      const cell = row.getCell(c)
-      const v = cell.value as unknown
-      if (v && typeof v === 'object' && ('formula' in (v as object) || 'sharedFormula' in (v as object))) {
-        issues.push({ row: rowNumber, column: String(ws.getRow(1).getCell(c).value ?? c), path: `/file/${cell.address}`, message: `cell ${cell.address} holds a formula; paste values only` })
-        vals.push(null)
-      } else if (v && typeof v === 'object' && 'error' in (v as object)) {
-        issues.push({ row: rowNumber, column: String(ws.getRow(1).getCell(c).value ?? c), path: `/file/${cell.address}`, message: `cell ${cell.address} holds the error ${(v as { error: string }).error}` })
-        vals.push(null)
-      } else if (v && typeof v === 'object' && 'richText' in (v as object)) {
-        vals.push((v as { richText: { text: string }[] }).richText.map(t => t.text).join(''))
-      } else if (v instanceof Date) {
-        vals.push(v.toISOString().slice(0, 10))
-      } else vals.push(v === undefined ? null : v as string | number | null)
+/** Caps for a workbook: what its XML may expand to, its shared-string table, and the cells read. */
+export const MAX_XLSX_EXPANDED_BYTES = 256 * 1024 * 1024
+export const MAX_XLSX_SHARED_STRINGS_BYTES = 48 * 1024 * 1024
+export const MAX_XLSX_CELLS = 4_000_000
+
+/**
+ * How far the workbook expands, counted by inflating every entry as a stream (fflate) and throwing the
+ * bytes away: the sizes a ZIP declares can lie, the inflated bytes cannot. Stops at the first cap.
+ */
+function checkExpandedSize (buf: Uint8Array): void {
+  let total = 0; let problem: FileProblem | null = null
+  const unzip = new Unzip((entry) => {
+    let mine = 0
+    entry.ondata = (err, chunk) => {
+      if (err) { problem ??= new FileProblem(422, 'The file is not a readable XLSX workbook', [{ path: '/file', message: 'not XLSX' }]); return }
+      total += chunk.length; mine += chunk.length
+      if (total > MAX_XLSX_EXPANDED_BYTES) problem ??= new FileProblem(413, `The workbook expands to more than ${MAX_XLSX_EXPANDED_BYTES / 1048576} MB of XML; save the data as CSV, or split it`, [{ path: '/file', message: 'expands too far' }])
+      if (/sharedStrings\.xml$/.test(entry.name) && mine > MAX_XLSX_SHARED_STRINGS_BYTES) problem ??= new FileProblem(413, `The workbook's text table is larger than ${MAX_XLSX_SHARED_STRINGS_BYTES / 1048576} MB`, [{ path: '/file', message: 'shared strings too large' }])
+      if (problem) entry.terminate()
     }
-    out.push(vals)
+    entry.start()
   })
+  unzip.register(UnzipInflate)
+  try {
+    const step = 1 << 20
+    for (let i = 0; i < buf.length && !problem; i += step) unzip.push(buf.subarray(i, Math.min(i + step, buf.length)), i + step >= buf.length)
+  } catch { problem ??= new FileProblem(422, 'The file is not a readable XLSX workbook', [{ path: '/file', message: 'not XLSX' }]) }
+  if (problem) throw problem
+}
+
+/**
+ * XLSX read as a stream (exceljs's WorkbookReader): rows are taken one at a time and the read stops at
+ * the row and cell caps; the sheet named "records" is read, else the first. Formula and error cells are
+ * refused, each by its address.
+ */
+export async function parseXlsx (buf: Uint8Array): Promise<Table> {
+  if (buf.length < 4 || buf[0] !== 0x50 || buf[1] !== 0x4B) throw new FileProblem(422, 'The file is not a readable XLSX workbook', [{ path: '/file', message: 'not XLSX' }])
+  checkExpandedSize(buf)
+  const reader = new ExcelJS.stream.xlsx.WorkbookReader(Readable.from([Buffer.from(buf.buffer, buf.byteOffset, buf.byteLength)]), { sharedStrings: 'cache', hyperlinks: 'ignore', styles: 'ignore', worksheets: 'emit', entries: 'ignore' })
+  const issues: RowIssue[] = []
+  let chosen: { name: string, rows: (string | number | null)[][] } | null = null
+  let cells = 0
+  try {
+    for await (const ws of reader as unknown as AsyncIterable<AsyncIterable<ExcelJS.Row> & { name: string }>) {
+      const isRecords = ws.name === 'records'
+      if (chosen && !isRecords) { for await (const _row of ws) { void _row } continue } // drain other sheets
+      const rows: (string | number | null)[][] = []
+      let header: string[] = []
+      for await (const row of ws) {
+        if (rows.length > MAX_ROWS) throw new FileProblem(413, `Too many rows (at most ${MAX_ROWS} per upload)`, [{ path: '/file', message: 'too many rows' }])
+        const width = Math.max(header.length, row.cellCount)
+        cells += width
+        if (cells > MAX_XLSX_CELLS) throw new FileProblem(413, `The sheet has more than ${MAX_XLSX_CELLS} cells; save the data as CSV, or split it`, [{ path: '/file', message: 'too many cells' }])
+        const vals: (string | number | null)[] = []
+        for (let c = 1; c <= width; c++) {
+          const cell = row.getCell(c)
+          const v = cell.value as unknown
+          const column = header[c - 1] ?? String(c)
+          if (v && typeof v === 'object' && ('formula' in (v as object) || 'sharedFormula' in (v as object))) {
+            if (issues.length < 200) issues.push({ row: row.number, column, path: `/file/${cell.address}`, message: `cell ${cell.address} holds a formula; paste values only` })
+            vals.push(null)
+          } else if (v && typeof v === 'object' && 'error' in (v as object)) {
+            if (issues.length < 200) issues.push({ row: row.number, column, path: `/file/${cell.address}`, message: `cell ${cell.address} holds the error ${(v as { error: string }).error}` })
+            vals.push(null)
+          } else if (v && typeof v === 'object' && 'richText' in (v as object)) {
+            vals.push((v as { richText: { text: string }[] }).richText.map(t => t.text).join(''))
+          } else if (v instanceof Date) {
+            vals.push(v.toISOString().slice(0, 10))
+          } else vals.push(v === undefined ? null : v as string | number | null)
+        }
+        if (!rows.length) header = vals.map(h => String(h ?? ''))
+        rows.push(vals)
+      }
+      if (!chosen || isRecords) chosen = { name: ws.name, rows }
+      if (isRecords) break
+    }
+  } catch (e) {
+    if (e instanceof FileProblem) throw e
+    throw new FileProblem(422, 'The file is not a readable XLSX workbook', [{ path: '/file', message: 'not XLSX' }])
+  }
+  if (!chosen) throw new FileProblem(422, 'The workbook has no sheet', [{ path: '/file', message: 'no sheet' }])
   if (issues.length) throw new FileProblem(422, `The workbook has ${issues.length} formula or error cell(s)`, issues)
-  const [headers, ...rows] = out
+  const [headers, ...rows] = chosen.rows
   if (!headers) throw new FileProblem(422, 'The sheet is empty', [{ path: '/file', message: 'no header row' }])
   return { headers: headers.map(h => String(h ?? '')), rows }
 }

@@ -1,25 +1,37 @@
+import type { H3Event } from 'h3'
 import { checkFile } from '../../../../../utils/deposit/check'
 import { ingestContext, recordValidator, requireEditableDraft, storeOriginal } from '../../../../../utils/deposit/drafts'
 import { FileProblem, MAX_FILE_BYTES } from '../../../../../utils/deposit/parse'
 import { httpError } from '../../../../../utils/errors'
+import { readUploadedFile } from '../../../../../utils/body'
 import { intParam } from '../../../../../utils/params'
 
 defineRouteMeta({ openAPI: { tags: ['deposit'], summary: 'Step 1 of an upload: check a CSV, XLSX or JSON file (multipart field "file") and keep it; nothing is added yet', responses: { 200: { description: '{ upload, rowCount, acceptedCount, issues, warnings, preview }' }, 413: { description: 'File or row count too large' }, 422: { description: 'Problems with the file itself' } } } })
 
 export default defineEventHandler(async (event) => {
   const id = intParam(event, 'id')
-  const declared = Number(getHeader(event, 'content-length') ?? 0)
-  if (declared > MAX_FILE_BYTES + 64 * 1024) throw httpError(413, `The file is larger than ${MAX_FILE_BYTES / 1024 / 1024} MB`, [{ path: '/file', message: 'too large' }])
   const { viewer, version } = await requireEditableDraft(event, id)
-  const parts = await readMultipartFormData(event)
-  const file = parts?.find(p => p.name === 'file' && p.filename)
-  if (!file) throw httpError(422, 'Send the file as multipart form field "file"', [{ path: '/file', message: 'is required' }])
-  if (file.data.byteLength > MAX_FILE_BYTES) throw httpError(413, `The file is larger than ${MAX_FILE_BYTES / 1024 / 1024} MB`, [{ path: '/file', message: 'too large' }])
-  const buf = new Uint8Array(file.data)
+  // at most MAX_CHECKS_AT_ONCE files are read and checked at once on this instance: memory stays bounded
+  if (checksRunning >= MAX_CHECKS_AT_ONCE) {
+    setHeader(event, 'retry-after', '5')
+    throw httpError(429, `The server is checking ${MAX_CHECKS_AT_ONCE} uploads already; try again in a few seconds`)
+  }
+  checksRunning++
   try {
-    const res = await checkFile(file.filename!, file.type, buf, recordValidator(), await ingestContext())
+    return await checkUpload(event, viewer.id, version.id)
+  } finally { checksRunning-- }
+})
+
+const MAX_CHECKS_AT_ONCE = 4
+let checksRunning = 0
+
+async function checkUpload (event: H3Event, viewerId: string, versionId: number) {
+  const file = await readUploadedFile(event, MAX_FILE_BYTES)
+  const buf = file.data
+  try {
+    const res = await checkFile(file.filename, file.type, buf, recordValidator(), await ingestContext())
     // Only a clean file is kept (for the commit step); a file with problems leaves no trace.
-    const stored = res.issueCount ? null : await storeOriginal(version.id, viewer.id, file.filename!, file.type, buf)
+    const stored = res.issueCount ? null : await storeOriginal(versionId, viewerId, file.filename, file.type, buf)
     return {
       upload: stored && { id: stored.id, name: stored.name, size: stored.size, sha256: stored.sha256 },
       kind: res.kind, rowCount: res.rowCount, acceptedCount: res.records.length, derivedCount: res.derivedCount,
@@ -30,4 +42,4 @@ export default defineEventHandler(async (event) => {
     if (e instanceof FileProblem) throw httpError(e.status, e.message, e.issues)
     throw e
   }
-})
+}
