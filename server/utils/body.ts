@@ -115,3 +115,20 @@ export async function readUploadedFile (event: H3Event, maxBytes: number): Promi
   if (!result || !result.filename) throw httpError(422, 'Send the file as multipart form field "file"', [{ path: '/file', message: 'is required' }])
   return result
 }
+
+/**
+ * Reads and throws away what is left of a request body (bounded by `limit` bytes and a few seconds) so that
+ * an early answer (401, 404, 429) reaches a client that is still sending instead of a reset connection.
+ */
+export async function discardBody (event: H3Event, limit: number): Promise<void> {
+  const req = event.node.req
+  if (req.complete) return
+  await new Promise<void>((resolve) => {
+    let size = 0
+    const timer = setTimeout(() => resolve(), 5000)
+    const stop = () => { clearTimeout(timer); resolve() }
+    req.on('data', (c: Buffer) => { size += c.length; if (size > limit) { req.destroy(); stop() } })
+    req.once('end', stop); req.once('error', stop); req.once('close', stop)
+    req.resume()
+  })
+}

@@ -78,7 +78,7 @@ export const MAX_XLSX_CELLS = 4_000_000
  * How far the workbook expands, counted by inflating every entry as a stream (fflate) and throwing the
  * bytes away: the sizes a ZIP declares can lie, the inflated bytes cannot. Stops at the first cap.
  */
-function checkExpandedSize (buf: Uint8Array): void {
+async function checkExpandedSize (buf: Uint8Array): Promise<void> {
   let total = 0; let problem: FileProblem | null = null
   const unzip = new Unzip((entry) => {
     let mine = 0
@@ -93,8 +93,13 @@ function checkExpandedSize (buf: Uint8Array): void {
   })
   unzip.register(UnzipInflate)
   try {
-    const step = 1 << 20
-    for (let i = 0; i < buf.length && !problem; i += step) unzip.push(buf.subarray(i, Math.min(i + step, buf.length)), i + step >= buf.length)
+    // small input steps: fflate inflates one push into one buffer, and a 4 kB step expands to at most ~4 MB
+    // (deflate's ratio is below 1 032:1); the event loop gets a turn every 64 kB of input
+    const step = 4096
+    for (let i = 0, n = 0; i < buf.length && !problem; i += step, n++) {
+      unzip.push(buf.subarray(i, Math.min(i + step, buf.length)), i + step >= buf.length)
+      if (n % 16 === 15) await new Promise(resolve => setImmediate(resolve))
+    }
   } catch { problem ??= new FileProblem(422, 'The file is not a readable XLSX workbook', [{ path: '/file', message: 'not XLSX' }]) }
   if (problem) throw problem
 }
@@ -106,7 +111,7 @@ function checkExpandedSize (buf: Uint8Array): void {
  */
 export async function parseXlsx (buf: Uint8Array): Promise<Table> {
   if (buf.length < 4 || buf[0] !== 0x50 || buf[1] !== 0x4B) throw new FileProblem(422, 'The file is not a readable XLSX workbook', [{ path: '/file', message: 'not XLSX' }])
-  checkExpandedSize(buf)
+  await checkExpandedSize(buf)
   const reader = new ExcelJS.stream.xlsx.WorkbookReader(Readable.from([Buffer.from(buf.buffer, buf.byteOffset, buf.byteLength)]), { sharedStrings: 'cache', hyperlinks: 'ignore', styles: 'ignore', worksheets: 'emit', entries: 'ignore' })
   const issues: RowIssue[] = []
   let chosen: { name: string, rows: (string | number | null)[][] } | null = null

@@ -3,17 +3,20 @@ import { checkFile } from '../../../../../utils/deposit/check'
 import { ingestContext, recordValidator, requireEditableDraft, storeOriginal } from '../../../../../utils/deposit/drafts'
 import { FileProblem, MAX_FILE_BYTES } from '../../../../../utils/deposit/parse'
 import { httpError } from '../../../../../utils/errors'
-import { readUploadedFile } from '../../../../../utils/body'
+import { discardBody, readUploadedFile } from '../../../../../utils/body'
 import { intParam } from '../../../../../utils/params'
 
 defineRouteMeta({ openAPI: { tags: ['deposit'], summary: 'Step 1 of an upload: check a CSV, XLSX or JSON file (multipart field "file") and keep it; nothing is added yet', responses: { 200: { description: '{ upload, rowCount, acceptedCount, issues, warnings, preview }' }, 413: { description: 'File or row count too large' }, 422: { description: 'Problems with the file itself' } } } })
 
 export default defineEventHandler(async (event) => {
   const id = intParam(event, 'id')
-  const { viewer, version } = await requireEditableDraft(event, id)
+  let draft
+  try { draft = await requireEditableDraft(event, id) } catch (e) { await discardBody(event, MAX_FILE_BYTES + 65536); throw e }
+  const { viewer, version } = draft
   // at most MAX_CHECKS_AT_ONCE files are read and checked at once on this instance: memory stays bounded
   if (checksRunning >= MAX_CHECKS_AT_ONCE) {
     setHeader(event, 'retry-after', '5')
+    await discardBody(event, MAX_FILE_BYTES + 65536)
     throw httpError(429, `The server is checking ${MAX_CHECKS_AT_ONCE} uploads already; try again in a few seconds`)
   }
   checksRunning++
