@@ -1,4 +1,5 @@
 import { copyModuleSyncEntries } from './scripts/lib/nitro-fixes'
+import { DEMO_AUTH_SECRET } from './server/utils/demo-secret'
 import { cpSync, existsSync } from 'node:fs'
 import { resolve } from 'node:path'
 
@@ -33,7 +34,7 @@ export default defineNuxtConfig({
     databaseUrl: 'file:./data/crosspoint.db',
     databaseAuthToken: '',
     dataDir: './data',
-    authSecret: 'crosspoint-demo-secret-change-me-in-production',
+    authSecret: DEMO_AUTH_SECRET,
     smtpUrl: '',
     registrarUrl: '',
     registrarPrefix: '10.99999',

@@ -29,7 +29,7 @@ const url = `http://127.0.0.1:${port}`
 const heap = process.env.LOAD_HEAP_MB ? [`--max-old-space-size=${process.env.LOAD_HEAP_MB}`] : []
 // LOAD_NODE_FLAGS adds flags for a diagnosis (e.g. --heapsnapshot-signal=SIGUSR2 to take heap snapshots mid-run)
 const extra = (process.env.LOAD_NODE_FLAGS ?? '').split(' ').filter(Boolean)
-const proc = spawn(process.execPath, [...heap, ...extra, '--trace-gc', entry], { env: { ...process.env, PORT: String(port), HOST: '127.0.0.1', NUXT_DATABASE_URL: dbUrl, NUXT_DATA_DIR: dir, AUTH_ORIGIN: `${url}/api/auth` }, stdio: ['ignore', 'pipe', 'ignore'] })
+const proc = spawn(process.execPath, [...heap, ...extra, '--trace-gc', entry], { env: { ...process.env, PORT: String(port), HOST: '127.0.0.1', NUXT_DATABASE_URL: dbUrl, NUXT_DATA_DIR: dir, AUTH_ORIGIN: `${url}/api/auth`, NUXT_AUTH_SECRET: 'bench-secret-not-for-production' }, stdio: ['ignore', 'pipe', 'ignore'] })
 // "[pid:0x…]  41234 ms: Mark-Compact 180.2 (200.1) -> 95.3 (190.0) MB, …" (V8's --trace-gc line)
 const fullGcs: { liveMb: number }[] = []
 let measuring = false

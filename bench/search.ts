@@ -73,7 +73,7 @@ if (want('search.http.requests_per_second') || want('search.server.rss_mb')) {
     client.close()
     const port = await new Promise<number>(r => { const s = createServer(); s.listen(0, '127.0.0.1', () => { const p = (s.address() as { port: number }).port; s.close(() => r(p)) }) })
     const url = `http://127.0.0.1:${port}`
-    const proc = spawn(process.execPath, [entry], { env: { ...process.env, PORT: String(port), HOST: '127.0.0.1', AUTH_ORIGIN: `${url}/api/auth`, NUXT_DATA_DIR: dir }, stdio: 'ignore' })
+    const proc = spawn(process.execPath, [entry], { env: { ...process.env, PORT: String(port), HOST: '127.0.0.1', AUTH_ORIGIN: `${url}/api/auth`, NUXT_DATA_DIR: dir, NUXT_AUTH_SECRET: 'bench-secret-not-for-production' }, stdio: 'ignore' })
     for (let i = 0; i < 600; i++) {
       try { const r = await fetch(`${url}/api/v1/records?q=porphyrin&pageSize=1`); if (r.ok && (await r.json() as { total: number }).total > 0) break } catch { /* starting */ }
       await new Promise(r => setTimeout(r, 100))

@@ -11,7 +11,9 @@ const env = {
   NUXT_DATA_DIR: process.env.NUXT_DATA_DIR ?? './data',
   AUTH_ORIGIN: process.env.AUTH_ORIGIN ?? `${base}/api/auth`,
   NUXT_PUBLIC_BASE_URL: base,
-  PORT: port
+  PORT: port,
+  // the demo runs with the demo session secret on purpose; any other production start refuses it
+  CROSSPOINT_DEMO: '1'
 }
 const step = (label, cmd, args) => {
   process.stdout.write(`\n▸ ${label}\n`)

@@ -27,8 +27,16 @@ export const users = sqliteTable('user', {
   orcid: text('orcid'),
   affiliation: text('affiliation'),
   isDemo: integer('is_demo', { mode: 'boolean' }).notNull().default(false),
+  /** Raised by "sign out everywhere", a password reset and a role change: sessions signed before it end. */
+  sessionVersion: integer('session_version').notNull().default(0),
   ...timestamps
 }, t => [uniqueIndex('user_email_unique').on(t.email)])
+
+/** Sessions ended by signing out (their id until the session would have expired anyway). */
+export const revokedSessions = sqliteTable('revoked_session', {
+  sid: text('sid').primaryKey(),
+  expiresAt: integer('expires_at', { mode: 'timestamp_ms' }).notNull()
+}, t => [index('revoked_session_expires_idx').on(t.expiresAt)])
 
 export const accounts = sqliteTable('account', {
   userId: text('userId').notNull().references(() => users.id, { onDelete: 'cascade' }),

@@ -7,7 +7,8 @@ import { and, eq, isNull } from 'drizzle-orm'
 import { hash, verify } from '@node-rs/argon2'
 import { recordFailure, slowAfterFailures } from './rate-limit'
 import { getHeader, type H3Event } from 'h3'
-import { getServerSession } from '#auth'
+import { getToken } from '#auth'
+import { sessionStands, type SessionClaims } from './sessions'
 import { useDb, schema } from './db'
 import { httpError, MESSAGES } from './errors'
 import type { Role } from '../database/schema'
@@ -20,6 +21,11 @@ export interface Viewer {
   labIds: number[]
 }
 
+/** E-mail addresses are compared in one form everywhere: trimmed, Unicode NFC, lower case. */
+export function normalizeEmail (email: unknown): string {
+  return String(email ?? '').normalize('NFC').trim().toLowerCase()
+}
+
 export function hashToken (token: string): string {
   return createHash('sha256').update(token).digest('hex')
 }
@@ -29,7 +35,7 @@ export function hashToken (token: string): string {
  * not verified yet. Repeated failures for one account are answered more and more slowly.
  */
 export async function verifyPassword (email: string, password: string) {
-  const key = email.trim().toLowerCase()
+  const key = normalizeEmail(email)
   await slowAfterFailures(key)
   const db = await useDb()
   const [u] = await db.select().from(schema.users).where(eq(schema.users.email, key))
@@ -75,8 +81,9 @@ export async function getViewer (event: H3Event): Promise<Viewer | null> {
     await db.update(schema.apiTokens).set({ lastUsedAt: new Date() }).where(eq(schema.apiTokens.id, t.id))
     viewer = await loadViewer(t.userId)
   } else {
-    const session = await getServerSession(event).catch(() => null) as { user?: { id?: string } } | null
-    if (session?.user?.id) viewer = await loadViewer(session.user.id)
+    // the token itself (no session round trip), and only while the session stands
+    const token = await getToken({ event }).catch(() => null) as SessionClaims | null
+    if (token && typeof token.uid === 'string' && await sessionStands(token)) viewer = await loadViewer(token.uid)
   }
   event.context.viewer = viewer
   return viewer

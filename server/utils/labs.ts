@@ -5,7 +5,7 @@ import { httpError, MESSAGES } from './errors'
 import { audit } from './audit'
 import { createOneTimeToken, consumeOneTimeToken } from './one-time-tokens'
 import { publicUrl, sendMail } from './mail'
-import type { Viewer } from './auth'
+import { normalizeEmail, type Viewer } from './auth'
 
 export async function getLabOr404 (id: number) {
   const db = await useDb()
@@ -31,15 +31,15 @@ export async function createLab (actor: Viewer, input: { slug: string, name: str
 
 export async function inviteToLab (actor: Viewer, labId: number, email: string) {
   const lab = await getLabOr404(labId)
-  const token = await createOneTimeToken(`invite:${labId}`, email.toLowerCase(), 7 * 24 * 60)
+  const token = await createOneTimeToken(`invite:${labId}`, normalizeEmail(email), 7 * 24 * 60)
   await sendMail(email, `Invitation to join ${lab.name} on Crosspoint`,
     `${actor.name ?? actor.email} invites you to join ${lab.name} on Crosspoint, the shared archive of electron-transfer rates.\n\nSign in (or create an account with this address), then open:\n${publicUrl(`/invite?token=${token}`)}\n\nThe invitation is valid for 7 days.\n`)
-  await audit(actor.id, 'lab.invited', 'lab', labId, { email: email.toLowerCase() })
+  await audit(actor.id, 'lab.invited', 'lab', labId, { email: normalizeEmail(email) })
 }
 
 export async function acceptInvitation (viewer: Viewer, token: string) {
   const t = await consumeOneTimeToken(token, 'invite:', (inv) => {
-    if (inv.email !== viewer.email.toLowerCase()) throw httpError(403, `This invitation was sent to ${inv.email}; sign in with that address to accept it`)
+    if (inv.email !== normalizeEmail(viewer.email)) throw httpError(403, `This invitation was sent to ${inv.email}; sign in with that address to accept it`)
   })
   if (!t) throw httpError(410, 'This invitation is not valid any more; ask the lab lead for a new one', [{ path: '/token', message: 'unknown, used or expired' }])
   const labId = Number(t.purpose.split(':')[1])

@@ -3,15 +3,20 @@
  * kept (hashed) in the verificationToken table; consuming one deletes it.
  */
 import { randomBytes } from 'node:crypto'
-import { and, eq, gt } from 'drizzle-orm'
+import { and, eq, gt, inArray } from 'drizzle-orm'
 import { useDb, schema } from './db'
 import { hashToken } from './auth'
 
 export type TokenPurpose = 'verify' | 'login' | 'reset' | `invite:${number}`
 
+/** Purposes that sign someone in or change their password: one outstanding link of these per address. */
+const ACCOUNT_ACCESS: TokenPurpose[] = ['login', 'reset']
+
 export async function createOneTimeToken (purpose: TokenPurpose, email: string, ttlMinutes: number): Promise<string> {
   const raw = randomBytes(24).toString('base64url')
   const db = await useDb()
+  // a new reset link replaces the older ones of the same address (and a new sign-in link the older sign-in links)
+  if (ACCOUNT_ACCESS.includes(purpose)) await db.delete(schema.verificationTokens).where(eq(schema.verificationTokens.identifier, `${purpose}|${email}`))
   await db.insert(schema.verificationTokens).values({ identifier: `${purpose}|${email}`, token: hashToken(raw), expires: new Date(Date.now() + ttlMinutes * 60e3) })
   return raw
 }
@@ -27,5 +32,10 @@ export async function consumeOneTimeToken (raw: string, purposePrefix: string, a
   const t = { purpose: row.identifier.slice(0, i), email: row.identifier.slice(i + 1) }
   accept(t) // may throw: the token then stays usable for the right person
   const gone = await db.delete(schema.verificationTokens).where(eq(schema.verificationTokens.token, row.token)).returning()
-  return gone.length ? t : null // a concurrent use of the same token gets nothing
+  if (!gone.length) return null // a concurrent use of the same token gets nothing
+  // using a sign-in or reset link ends every other outstanding sign-in and reset link of that address
+  if (ACCOUNT_ACCESS.includes(t.purpose as TokenPurpose)) {
+    await db.delete(schema.verificationTokens).where(inArray(schema.verificationTokens.identifier, ACCOUNT_ACCESS.map(p => `${p}|${t.email}`)))
+  }
+  return t
 }

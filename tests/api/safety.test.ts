@@ -40,7 +40,7 @@ describe('crash safety and start-up checks', () => {
     writeSync(fd, Buffer.alloc(64 * 1024, 0x5a), 0, 64 * 1024, Math.floor(size / 2 / 4096) * 4096)
     closeSync(fd)
     const port = await freePort()
-    const proc = spawn(process.execPath, [SERVER_ENTRY], { cwd: dir, env: { ...process.env, PORT: String(port), HOST: '127.0.0.1', NUXT_DATABASE_URL: `file:${db}`, AUTH_ORIGIN: `http://127.0.0.1:${port}/api/auth` } })
+    const proc = spawn(process.execPath, [SERVER_ENTRY], { cwd: dir, env: { ...process.env, PORT: String(port), HOST: '127.0.0.1', NUXT_DATABASE_URL: `file:${db}`, AUTH_ORIGIN: `http://127.0.0.1:${port}/api/auth`, NUXT_AUTH_SECRET: 'safety-test-secret' } })
     let out = ''
     proc.stdout.on('data', d => { out += d }); proc.stderr.on('data', d => { out += d })
     const code = await new Promise<number | null>(r => proc.on('exit', r))

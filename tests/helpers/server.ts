@@ -147,3 +147,14 @@ export const DEMO = {
   curator: 'pia.veldhaus@brightwater.example',
   admin: 'rowan.tessaly@crosspoint.example'
 }
+
+/** Signs out like the browser does (next-auth's sign-out form with its CSRF token); returns the status. */
+export async function signOutOf (base: string, cookie: string): Promise<number> {
+  const csrf = await (await fetch(`${base}/api/auth/csrf`, { headers: { cookie } })).json() as { csrfToken: string }
+  const res = await fetch(`${base}/api/auth/signout`, {
+    method: 'POST', redirect: 'manual',
+    headers: { 'content-type': 'application/x-www-form-urlencoded', cookie },
+    body: new URLSearchParams({ csrfToken: csrf.csrfToken, callbackUrl: base, json: 'true' })
+  })
+  return res.status
+}

@@ -1,14 +1,18 @@
 import CredentialsProviderModule from 'next-auth/providers/credentials'
 import { NuxtAuthHandler } from '#auth'
 import { signInWithLink, verifyPassword } from '../../utils/auth'
+import { endSession, newSessionId, SESSION_MAX_AGE_S, sessionStands, sessionVersionOf } from '../../utils/sessions'
 
 // next-auth providers are CommonJS; under ESM the factory sits on `.default`.
 const CredentialsProvider = ((CredentialsProviderModule as unknown as { default?: typeof CredentialsProviderModule }).default ?? CredentialsProviderModule)
 
 export default NuxtAuthHandler({
   secret: useRuntimeConfig().authSecret,
-  session: { strategy: 'jwt', maxAge: 7 * 24 * 3600 },
+  session: { strategy: 'jwt', maxAge: SESSION_MAX_AGE_S },
   pages: { signIn: '/signin' },
+  events: {
+    async signOut ({ token }) { await endSession(token) }
+  },
   providers: [
     CredentialsProvider({
       name: 'password',
@@ -24,8 +28,14 @@ export default NuxtAuthHandler({
     })
   ],
   callbacks: {
-    jwt ({ token, user }) {
-      if (user) { token.uid = user.id; token.role = (user as unknown as { role: string }).role }
+    async jwt ({ token, user }) {
+      if (user) {
+        token.uid = user.id; token.role = (user as unknown as { role: string }).role
+        token.sid = newSessionId(); token.sv = await sessionVersionOf(user.id)
+        return token
+      }
+      // an ended session (signed out, reset, role changed) is refused here: next-auth then clears the cookie
+      if (!(await sessionStands(token))) throw new Error('This session has ended')
       return token
     },
     session ({ session, token }) {

@@ -1,3 +1,4 @@
+import { normalizeEmail } from '../../../utils/auth'
 import { emailSchema, sendSignInLink } from '../../../utils/accounts'
 import { limitRate } from '../../../utils/rate-limit'
 import { readValidated } from '../../../utils/validation'
@@ -6,7 +7,7 @@ defineRouteMeta({ openAPI: { tags: ['account'], summary: 'E-mail a one-time sign
 
 export default defineEventHandler(async (event) => {
   const { email } = await readValidated<{ email: string }>(event, { type: 'object', required: ['email'], additionalProperties: false, properties: { email: emailSchema } })
-  limitRate(event, `login-link|${email.toLowerCase()}`, 5, 900)
+  limitRate(event, `login-link|${normalizeEmail(email)}`, 5, 900)
   await sendSignInLink(email)
   setResponseStatus(event, 202)
   return { message: 'If the address has an account, a sign-in link is on its way.' }

@@ -4,18 +4,21 @@ import { audit } from '../../../../utils/audit'
 import { useDb, schema } from '../../../../utils/db'
 import { httpError } from '../../../../utils/errors'
 import { readValidated } from '../../../../utils/validation'
+import { endAllSessions } from '../../../../utils/sessions'
 
 defineRouteMeta({ openAPI: { tags: ['admin'], summary: 'Change a user\'s role (admin; audited)' } })
 
 export default defineEventHandler(async (event) => {
   const id = getRouterParam(event, 'id') ?? ''
-  const { role } = await readValidated<{ role: 'contributor' | 'curator' | 'admin' }>(event, { type: 'object', required: ['role'], additionalProperties: false, properties: { role: { enum: ['contributor', 'curator', 'admin'] } } })
   const admin = await requireRole(event, 'admin')
+  const { role } = await readValidated<{ role: 'contributor' | 'curator' | 'admin' }>(event, { type: 'object', required: ['role'], additionalProperties: false, properties: { role: { enum: ['contributor', 'curator', 'admin'] } } })
   if (id === admin.id && role !== 'admin') throw httpError(409, 'You cannot remove your own admin role; ask another admin')
   const db = await useDb()
   const [before] = await db.select({ role: schema.users.role }).from(schema.users).where(eq(schema.users.id, id))
   if (!before) throw httpError(404, 'No such user')
   await db.update(schema.users).set({ role, updatedAt: new Date() }).where(eq(schema.users.id, id))
+  // a new role starts new sessions: the person signs in again and gets exactly what the role allows
+  if (before.role !== role) await endAllSessions(id)
   await audit(admin.id, 'user.role-changed', 'user', id, { from: before.role, to: role })
   return { id, role }
 })

@@ -1,4 +1,4 @@
-import { requireLabLead } from '../../../../utils/auth'
+import { normalizeEmail, requireLabLead } from '../../../../utils/auth'
 import { inviteToLab } from '../../../../utils/labs'
 import { intParam } from '../../../../utils/params'
 import { limitRate } from '../../../../utils/rate-limit'
@@ -13,5 +13,5 @@ export default defineEventHandler(async (event) => {
   limitRate(event, `invite|${v.id}`, 30, 3600)
   await inviteToLab(v, id, email)
   setResponseStatus(event, 202)
-  return { invited: email.toLowerCase() }
+  return { invited: normalizeEmail(email) }
 })

@@ -1,11 +1,10 @@
 /**
  * Security headers on every answer, with a per-request nonce for the page's inline scripts (added
- * to the rendered HTML in plugins/csp-nonce.ts), and a limit on password sign-in attempts.
+ * to the rendered HTML in plugins/csp-nonce.ts). Static files get theirs from the route rules.
  */
 import { randomBytes } from 'node:crypto'
-import { limitRate } from '../utils/rate-limit'
 
-export default defineEventHandler(async (event) => {
+export default defineEventHandler((event) => {
   const nonce = randomBytes(16).toString('base64')
   event.context.cspNonce = nonce
   const csp = [
@@ -29,8 +28,4 @@ export default defineEventHandler(async (event) => {
     'cross-origin-opener-policy': 'same-origin'
   })
   if (getRequestURL(event).protocol === 'https:') setHeader(event, 'strict-transport-security', 'max-age=31536000')
-  if (event.method === 'POST' && event.path.startsWith('/api/auth/callback/credentials')) {
-    const body = await readBody(event).catch(() => ({})) as { email?: string }
-    limitRate(event, `signin|${String(body?.email ?? '').toLowerCase()}`, 10, 900)
-  }
 })
