@@ -45,6 +45,11 @@ export default defineNuxtConfig({
       version: process.env.npm_package_version ?? '0.1.0'
     }
   },
+  // static files (the built /_nuxt assets, fonts, favicon) are served before the server middleware runs:
+  // they get their security headers here
+  routeRules: {
+    '/**': { headers: { 'x-content-type-options': 'nosniff', 'referrer-policy': 'same-origin', 'x-frame-options': 'DENY' } }
+  },
   nitro: {
     experimental: { openAPI: true },
     openAPI: {

@@ -208,6 +208,8 @@ export const uploadedFiles = sqliteTable('uploaded_file', {
   sha256: text('sha256').notNull(),
   storageKey: text('storage_key').notNull(),
   mediaType: text('media_type'),
+  /** When its rows were added to the draft: an upload is committed once (a retry after a lost answer adds nothing). */
+  committedAt: integer('committed_at', { mode: 'timestamp_ms' }),
   ...timestamps
 }, t => [uniqueIndex('uploaded_file_storage_key_unique').on(t.storageKey), index('uploaded_file_version_idx').on(t.versionId)])
 

@@ -36,13 +36,25 @@ export function visibleVersionsWhere (viewer: Viewer | null): SQL | undefined {
   return or(...parts)
 }
 
+/** The visibility rule of visibleVersionsWhere for the subquery's version alias v2 (dataset: the outer row). */
+function visibleV2 (viewer: Viewer | null): SQL {
+  const pub = sql`v2.state in ('published', 'withdrawn')`
+  if (!viewer) return pub
+  if (viewer.role === 'admin') return sql`1 = 1`
+  const parts: SQL[] = [pub]
+  if (viewer.labIds.length) parts.push(sql`${datasets.labId} in ${viewer.labIds}`)
+  if (viewer.role === 'curator') parts.push(sql`v2.state = 'submitted'`)
+  return sql`(${sql.join(parts, sql` or `)})`
+}
+
 export async function listDatasets (viewer: Viewer | null, opts: { state?: string, labId?: number, q?: string, limit: number, offset: number }) {
   const db = await useDb()
   const where = and(visibleVersionsWhere(viewer), opts.state ? eq(versions.state, opts.state as never) : undefined,
     opts.labId ? eq(datasets.labId, opts.labId) : undefined,
     opts.q ? sql`lower(${versions.title}) like ${'%' + opts.q.toLowerCase() + '%'}` : undefined,
-    // one row per dataset: its newest version the viewer can see
-    sql`${versions.versionNumber} = (select max(v2.version_number) from dataset_version v2 where v2.dataset_id = ${datasets.id})`)
+    // one row per dataset: its newest version the viewer can see (a published dataset stays listed
+    // for visitors while its next version is drafted or in review)
+    sql`${versions.versionNumber} = (select max(v2.version_number) from dataset_version v2 where v2.dataset_id = ${datasets.id} and ${visibleV2(viewer)})`)
   const rows = await db.select({
     id: datasets.id, labId: datasets.labId, labName: labs.name, conceptDoi: datasets.conceptDoi, isDemo: datasets.isDemo,
     versionNumber: versions.versionNumber, state: versions.state, title: versions.title, doi: versions.doi,
@@ -77,11 +89,12 @@ export function isUnderEmbargo (v: { embargoUntil: string | null }): boolean {
 
 /** Columns of a version's records: `summary` leaves out each record's full JSON (tables and plots need only these). */
 export type RecordDetail = 'full' | 'summary'
-export async function versionRecords (versionId: number, limit = 100_000, detail: RecordDetail = 'full') {
+export async function versionRecords (versionId: number, range: { offset: number, limit: number }, detail: RecordDetail = 'full') {
+  const { offset, limit } = range
   const db = await useDb()
   const summary = { id: records.id, position: records.position, recordKey: records.recordKey, deltaG: records.deltaG, log10Rate: records.log10Rate, rate: records.rate, rateKind: records.rateKind, process: records.process, solvent: records.solvent, temperatureK: records.temperatureK, donorName: records.donorName, acceptorName: records.acceptorName, bridgeName: records.bridgeName, distanceAngstrom: records.distanceAngstrom, technique: records.technique, linkage: records.linkage }
-  if (detail === 'summary') return db.select(summary).from(records).where(eq(records.versionId, versionId)).orderBy(records.position).limit(limit)
-  return db.select({ ...summary, data: records.data }).from(records).where(eq(records.versionId, versionId)).orderBy(records.position).limit(limit)
+  if (detail === 'summary') return db.select(summary).from(records).where(eq(records.versionId, versionId)).orderBy(records.position).limit(limit).offset(offset)
+  return db.select({ ...summary, data: records.data }).from(records).where(eq(records.versionId, versionId)).orderBy(records.position).limit(limit).offset(offset)
 }
 
 /** Records of the newest published, out-of-embargo version of each dataset: what anyone may download. */

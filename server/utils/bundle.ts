@@ -5,6 +5,7 @@
  * written last, when every payload file's sha256 and size are known. A client that disconnects
  * stops the work.
  */
+import { oneLine } from '../../shared/text'
 import { createHash } from 'node:crypto'
 import { PassThrough, Readable } from 'node:stream'
 import { ZipArchive } from 'archiver'
@@ -186,7 +187,7 @@ export async function writeBundle (sel: Selection, out: NodeJS.WritableStream, s
     'Source-Organization: Crosspoint', `Bagging-Date: ${new Date().toISOString().slice(0, 10)}`, `Payload-Oxum: ${oxum}`,
     `External-Description: ${sel.description}`, `Source: ${sel.source}`, `Crosspoint-Query: ${sel.description}`,
     `Crosspoint-Records: ${count}`, ...cited.map(c => `Crosspoint-Dataset: ${c.doi ?? c.landingUrl} (${c.license})`)
-  ].join('\n') + '\n'
+  ].map(oneLine).join('\n') + '\n' // one line per tag, whatever the stored values hold
   const tags: Entry[] = []
   tags.push(await appendHashed(zip, 'bagit.txt', ['BagIt-Version: 1.0\nTag-File-Character-Encoding: UTF-8\n']))
   tags.push(await appendHashed(zip, 'bag-info.txt', [bagInfo]))

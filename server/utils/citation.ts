@@ -5,6 +5,7 @@
  * from our metadata; the tests parse each with general-purpose parsers (citation-js, yaml) and
  * validate CITATION.cff against the official CFF 1.2.0 schema.
  */
+import { oneLine } from '../../shared/text'
 import { stringify as toYaml } from 'yaml'
 import type { Creator, DatasetMetadataV1 } from '../../shared/records/types'
 import { publicUrl } from './mail'
@@ -112,8 +113,9 @@ export function ris (v: CitableVersion): string {
   const lines = ['TY  - DATA', ...v.metadata.creators.map(c => { const n = splitName(c); return `AU  - ${n.given ? `${n.family}, ${n.given}` : n.family}` }),
     `TI  - ${v.title}`, `PY  - ${year(v)}`, `PB  - ${PUBLISHER}`, `ET  - ${v.versionNumber}`,
     ...(v.doi ? [`DO  - ${v.doi}`, `UR  - ${doiUrl(v.doi)}`] : [`UR  - ${v.landingUrl}`]),
-    ...(v.metadata.keywords ?? []).map(k => `KW  - ${k}`), `N1  - Licence: ${v.license}`, 'ER  - ']
-  return lines.join('\r\n') + '\r\n'
+    ...(v.metadata.keywords ?? []).map(k => `KW  - ${k}`), `N1  - Licence: ${v.license}`]
+  // each tag one line, whatever was stored: a line break in a value cannot open another record
+  return [...lines.map(oneLine), 'ER  - '].join('\r\n') + '\r\n'
 }
 
 export function cff (v: CitableVersion): string {

@@ -5,13 +5,24 @@ import type { Viewer } from './auth'
 import { desc, eq } from 'drizzle-orm'
 import { useDb, schema } from './db'
 import { jsonLd, toCitable, type CitableVersion } from './citation'
-import { queryValidated } from './validation'
+import { coerceNumbers, queryValidated } from './validation'
 import type { H3Event } from 'h3'
 
-const DETAIL_QUERY = { type: 'object', additionalProperties: false, properties: { records: { enum: ['full', 'summary'] } } }
-/** The `records` query parameter of the dataset and version routes (422 naming it when it is neither value). */
-export function recordDetailOf (event: H3Event): RecordDetail | undefined {
-  return queryValidated<{ records?: RecordDetail }>(event, DETAIL_QUERY, q => q).records
+/** Records per page of the dataset and version routes: pages, with the total, never a silent cut. */
+export const MAX_RECORD_PAGE = 10_000
+const DETAIL_QUERY = {
+  type: 'object', additionalProperties: false,
+  properties: {
+    records: { enum: ['full', 'summary'] },
+    page: { type: 'integer', minimum: 1, maximum: 1_000_000 },
+    pageSize: { type: 'integer', minimum: 1, maximum: MAX_RECORD_PAGE }
+  }
+}
+export interface RecordQuery { detail?: RecordDetail, page: number, pageSize: number }
+/** The `records`, `page` and `pageSize` query parameters of the dataset and version routes (422 naming a bad one). */
+export function recordDetailOf (event: H3Event): RecordQuery {
+  const q = queryValidated<{ records?: RecordDetail, page?: number, pageSize?: number }>(event, DETAIL_QUERY, coerceNumbers(['page', 'pageSize']))
+  return { detail: q.records, page: q.page ?? 1, pageSize: q.pageSize ?? MAX_RECORD_PAGE }
 }
 
 /** A published (or withdrawn) version in the shape the citation formats take. */
@@ -32,7 +43,7 @@ async function reviewNotes (versionId: number) {
   return { decision: rev.decision, comment: rev.comment, at: rev.createdAt, comments }
 }
 
-export async function datasetView (viewer: Viewer | null, id: number, versionNumber?: number, detail: RecordDetail = 'full') {
+export async function datasetView (viewer: Viewer | null, id: number, versionNumber?: number, rq: RecordQuery = { page: 1, pageSize: MAX_RECORD_PAGE }) {
   const { dataset, lab, versions } = await getDataset(viewer, id)
   const version = versionNumber === undefined ? defaultVersion(versions) : versions.find(v => v.versionNumber === versionNumber)
   if (!version) throw httpError(404, MESSAGES.notFound)
@@ -54,7 +65,8 @@ export async function datasetView (viewer: Viewer | null, id: number, versionNum
       withdrawnAt: version.withdrawnAt, withdrawalReason: version.withdrawalReason, updatedAt: version.updatedAt
     },
     versions: versions.map(v => ({ versionNumber: v.versionNumber, state: v.state, doi: v.doi, publishedAt: v.publishedAt, recordCount: v.recordCount })),
-    records: hideRecords ? [] : await versionRecords(version.id, undefined, detail),
+    records: hideRecords ? [] : await versionRecords(version.id, { offset: (rq.page - 1) * rq.pageSize, limit: rq.pageSize }, rq.detail ?? 'full'),
+    recordPage: { page: rq.page, pageSize: rq.pageSize, total: hideRecords ? 0 : version.recordCount },
     review: isMember ? await reviewNotes(version.id) : null,
     jsonLd: version.doi && version.state === 'published' ? jsonLd(toCitable(version, dataset.conceptDoi, lab.name)) : null,
     recordsHidden: hideRecords ? (version.state === 'withdrawn' ? 'withdrawn' : 'embargo') : null

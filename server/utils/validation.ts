@@ -9,6 +9,7 @@ import { readBody, getQuery, type H3Event } from 'h3'
 import rateRecordSchema from '../../schemas/rate-record.v1.json'
 import datasetSchema from '../../schemas/dataset.v1.json'
 import { httpError, MESSAGES, type Issue } from './errors'
+import { parseDecimal } from '../../shared/records/ingest'
 
 // ajv and ajv-formats ship CommonJS; under ESM the constructor sits on `.default`.
 const Ajv2020 = ((Ajv2020Module as unknown as { default?: typeof Ajv2020Module }).default ?? Ajv2020Module) as typeof Ajv2020Module
@@ -96,8 +97,8 @@ export function coerceNumbers (keys: string[]) {
       const val = Array.isArray(v) ? v[v.length - 1] : v
       if (val === '' || val === undefined) continue
       if (keys.includes(k)) {
-        const n = Number(val)
-        out[k] = typeof val === 'string' && val.trim() !== '' && Number.isFinite(n) ? n : val
+        const n = typeof val === 'string' ? parseDecimal(val) : undefined
+        out[k] = n !== undefined && Number.isFinite(n) ? n : val
       } else out[k] = val
     }
     return out

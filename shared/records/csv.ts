@@ -48,6 +48,11 @@ export function csvLine (cells: unknown[]): string {
   return out + '\r\n'
 }
 
+/** A whole CSV file (header and rows), every text cell neutralised: the one writer the app's CSV exports use. */
+export function csvFile (header: string[], rows: unknown[][]): string {
+  return csvLine(header) + rows.map(r => csvLine(r.map(neutralizeCell))).join('')
+}
+
 /** The record's cells after the provenance ones, as one CSV line (with its CRLF), formula cells neutralised. */
 export function recordCsvLine (r: RateRecordV1): string {
   return csvLine(CSV_COLUMNS.map(([, , f]) => neutralizeCell(f(r) ?? '')))

@@ -23,6 +23,17 @@ export type SchemaValidator = ((data: unknown) => boolean) & { errors?: ErrorObj
 
 export const MAX_CELL_LENGTH = 2000
 
+/**
+ * A plain decimal number (optional sign, digits with an optional point, optional exponent) or undefined.
+ * JavaScript's Number() also takes "0x10" (16), "0b101", "0o17", "Infinity" and whitespace-only text, none
+ * of which a measured value is written as.
+ */
+export const DECIMAL = /^[+-]?(?:\d+\.?\d*|\.\d+)(?:[eE][+-]?\d+)?$/
+export function parseDecimal (text: string): number | undefined {
+  const t = text.trim()
+  return DECIMAL.test(t) ? Number(t) : undefined
+}
+
 function isBlank (v: Cell): boolean { return v === null || v === undefined || (typeof v === 'string' && v.trim() === '') }
 
 /**
@@ -43,8 +54,8 @@ export function rowToRecord (cells: Record<string, Cell>, units: Record<string, 
   const num = (k: string): number | undefined => {
     const v = cells[k]
     if (isBlank(v)) return undefined
-    const n = typeof v === 'number' ? v : Number(String(v).trim())
-    if (!Number.isFinite(n)) { issue(k, `"${String(v).slice(0, 40)}" is not a finite number`); return undefined }
+    const n = typeof v === 'number' ? v : parseDecimal(String(v))
+    if (n === undefined || !Number.isFinite(n)) { issue(k, `"${String(v).slice(0, 40)}" is not a finite number`); return undefined }
     return n
   }
   const unitOf = (k: string): string | undefined => {

@@ -66,9 +66,10 @@ export async function readOriginal (storageKey: string): Promise<Uint8Array> {
 }
 
 /** Appends (or, with replace, swaps in) records of a draft version in one transaction; all or nothing. */
-export async function writeRecords (versionId: number, records: RateRecordV1[], mode: 'append' | 'replace'): Promise<number> {
+export async function writeRecords (versionId: number, records: RateRecordV1[], mode: 'append' | 'replace', first?: (tx: Parameters<Parameters<Awaited<ReturnType<typeof useDb>>['transaction']>[0]>[0]) => Promise<void>): Promise<number> {
   const db = await useDb()
   const n = await db.transaction(async (tx) => {
+    if (first) await first(tx) // e.g. claim the upload, in the same transaction as the rows
     if (mode === 'replace') await tx.delete(schema.rateRecords).where(eq(schema.rateRecords.versionId, versionId))
     const [{ maxPos }] = await tx.select({ maxPos: sql<number>`coalesce(max(position), 0)` }).from(schema.rateRecords).where(eq(schema.rateRecords.versionId, versionId)) as [{ maxPos: number }]
     const rows = records.map((data, i) => ({ versionId, position: maxPos + i + 1, recordKey: randomUUID(), data: data as unknown as Record<string, unknown>, ...recordColumns(data) }))

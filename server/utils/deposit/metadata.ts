@@ -2,6 +2,7 @@
 import { eq, inArray } from 'drizzle-orm'
 import datasetSchema from '../../../schemas/dataset.v1.json'
 import { isValidDoi, isValidOrcid } from '../../../shared/identifiers'
+import { hasControlChars, hasOtherControlChars } from '../../../shared/text'
 import { useDb, schema } from '../db'
 import { httpError, type Issue } from '../errors'
 import { audit } from '../audit'
@@ -37,6 +38,14 @@ export async function createDraft (viewer: Viewer, labId: number, title: string,
 /** Rules the schema cannot state: ORCID check characters, DOI syntax, a sensible embargo date. */
 export function metadataIssues (m: DatasetMetaInput): Issue[] {
   const issues: Issue[] = []
+  // one-line fields refuse control characters (a line break would forge a line of RIS or bag-info.txt)
+  const oneLineField = (v: unknown, path: string) => { if (typeof v === 'string' && hasControlChars(v)) issues.push({ path, message: 'must be one line without control characters (line breaks, tabs, NUL…)' }) }
+  oneLineField(m.title, '/title')
+  if (typeof m.description === 'string' && hasOtherControlChars(m.description)) issues.push({ path: '/description', message: 'holds control characters other than tabs and line breaks' })
+  m.creators?.forEach((c, i) => { oneLineField(c.name, `/creators/${i}/name`); oneLineField(c.affiliation, `/creators/${i}/affiliation`) })
+  m.keywords?.forEach((k, i) => oneLineField(k, `/keywords/${i}`))
+  m.relatedIdentifiers?.forEach((r, i) => oneLineField(r.identifier, `/relatedIdentifiers/${i}/identifier`))
+  m.funding?.forEach((f, i) => { oneLineField(f.funderName, `/funding/${i}/funderName`); oneLineField(f.awardNumber, `/funding/${i}/awardNumber`) })
   m.creators?.forEach((c, i) => { if (c.orcid && !isValidOrcid(c.orcid)) issues.push({ path: `/creators/${i}/orcid`, message: 'is not a valid ORCID iD (ISO 7064 MOD 11-2 check character)' }) })
   m.relatedIdentifiers?.forEach((r, i) => { if (r.identifierType === 'DOI' && !isValidDoi(r.identifier)) issues.push({ path: `/relatedIdentifiers/${i}/identifier`, message: 'is not a DOI (10.<registrant>/<suffix>)' }) })
   if (m.embargoUntil) {

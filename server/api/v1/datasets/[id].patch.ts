@@ -7,7 +7,7 @@ defineRouteMeta({ openAPI: { tags: ['deposit'], summary: 'Change a draft\'s cita
 
 export default defineEventHandler(async (event) => {
   const id = intParam(event, 'id')
-  const b = await readValidated<DatasetMetaInput>(event, { ...datasetMetaSchema, required: [], minProperties: 1 })
   const { version, viewer } = await requireEditableDraft(event, id)
+  const b = await readValidated<DatasetMetaInput>(event, { ...datasetMetaSchema, required: [], minProperties: 1 })
   return updateMetadata(viewer, version, b)
 })

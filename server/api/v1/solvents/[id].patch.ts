@@ -7,12 +7,12 @@ import { intParam } from '../../../utils/params'
 import { readValidated } from '../../../utils/validation'
 import { solventFields } from '../../../utils/solvents'
 
-defineRouteMeta({ openAPI: { tags: ['reference'], summary: 'Edit a solvent row (curator or admin; audited). Records keep the values they were computed with.' } })
+defineRouteMeta({ openAPI: { tags: ['reference'], summary: 'Edit a solvent row (admins; audited). Records keep the values they were computed with.' } })
 
 export default defineEventHandler(async (event) => {
   const id = intParam(event, 'id')
+  const v = await requireRole(event, 'admin')
   const b = await readValidated<Record<string, unknown>>(event, { type: 'object', additionalProperties: false, minProperties: 1, properties: solventFields })
-  const v = await requireRole(event, 'curator', 'admin')
   const db = await useDb()
   const rows = await db.update(schema.solvents).set({ ...b, updatedAt: new Date() }).where(eq(schema.solvents.id, id)).returning()
   if (!rows.length) throw httpError(404, 'No such solvent')

@@ -5,11 +5,11 @@ import { httpError } from '../../../utils/errors'
 import { readValidated } from '../../../utils/validation'
 import { solventFields } from '../../../utils/solvents'
 
-defineRouteMeta({ openAPI: { tags: ['reference'], summary: 'Add a solvent (curator or admin)' } })
+defineRouteMeta({ openAPI: { tags: ['reference'], summary: 'Add a solvent (admins; audited)' } })
 
 export default defineEventHandler(async (event) => {
+  const v = await requireRole(event, 'admin')
   const b = await readValidated<{ name: string, permittivity: number, refractiveIndex: number, source: string }>(event, { type: 'object', additionalProperties: false, required: ['name', 'permittivity', 'refractiveIndex', 'source'], properties: solventFields })
-  const v = await requireRole(event, 'curator', 'admin')
   const db = await useDb()
   const [row] = await db.insert(schema.solvents).values(b).onConflictDoNothing().returning()
   if (!row) throw httpError(409, 'A solvent with this name exists', [{ path: '/name', message: 'is taken' }])

@@ -7,6 +7,7 @@ defineRouteMeta({ openAPI: { tags: ['review'], summary: 'Withdraw a published da
 
 export default defineEventHandler(async (event) => {
   const id = intParam(event, 'id')
+  const who = await requireRole(event, 'admin')
   const { reason } = await readValidated<{ reason: string }>(event, { type: 'object', required: ['reason'], additionalProperties: false, properties: { reason: { type: 'string', minLength: 10, maxLength: 2000 } } })
-  return withdrawDataset(await requireRole(event, 'admin'), id, reason)
+  return withdrawDataset(who, id, reason)
 })

@@ -6,6 +6,7 @@ defineRouteMeta({ openAPI: { tags: ['review'], summary: 'Accept and publish: min
 
 export default defineEventHandler(async (event) => {
   const id = intParam(event, 'id')
+  const who = await requireCurator(event)
   const b = await readValidated<{ comment?: string, expectedUpdatedAt: number }>(event, { type: 'object', required: ['expectedUpdatedAt'], additionalProperties: false, properties: { comment: { type: 'string', maxLength: 10000 }, expectedUpdatedAt: { type: 'integer' } } })
-  return acceptVersion(await requireCurator(event), id, b)
+  return acceptVersion(who, id, b)
 })

@@ -15,6 +15,7 @@ const body = {
 
 export default defineEventHandler(async (event) => {
   const id = intParam(event, 'id')
+  const who = await requireCurator(event)
   const b = await readValidated<{ comment: string, expectedUpdatedAt: number, recordComments?: { recordId: number, body: string }[] }>(event, body)
-  return returnVersion(await requireCurator(event), id, b)
+  return returnVersion(who, id, b)
 })
