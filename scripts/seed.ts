@@ -61,7 +61,7 @@ export async function seed (url = process.env.NUXT_DATABASE_URL ?? 'file:./data/
             metadata: { ...meta, ...(published ? { publicationYear: at.getUTCFullYear() } : {}) }, license: ds.license,
             doi: published ? `${conceptDoi}.v${vi + 1}` : null, recordCount: records.length,
             submittedAt: state === 'draft' ? null : new Date(at.getTime() - 5 * DAY),
-            publishedAt: published ? at : null,
+            publishedAt: published ? at : null, identifiersFindableAt: published ? at : null,
             withdrawnAt: state === 'withdrawn' ? new Date(at.getTime() + 30 * DAY) : null,
             withdrawalReason: state === 'withdrawn' ? 'A calibration error in the demo instrument was found after publication (demo).' : null,
             createdAt: new Date(at.getTime() - 10 * DAY), updatedAt: at

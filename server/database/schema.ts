@@ -125,6 +125,8 @@ export const datasetVersions = sqliteTable('dataset_version', {
   publishedAt: integer('published_at', { mode: 'timestamp_ms' }),
   withdrawnAt: integer('withdrawn_at', { mode: 'timestamp_ms' }),
   withdrawalReason: text('withdrawal_reason'),
+  /** When the registrar made this version's identifiers findable; null while they are reserved drafts (reconciled by a job). */
+  identifiersFindableAt: integer('identifiers_findable_at', { mode: 'timestamp_ms' }),
   ...timestamps
 }, t => [
   uniqueIndex('dataset_version_number_unique').on(t.datasetId, t.versionNumber),

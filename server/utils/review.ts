@@ -4,7 +4,7 @@
  * new versions and withdrawal. Every transition is one transaction, audited, and mailed.
  */
 import { createHash } from 'node:crypto'
-import { and, desc, eq, inArray, ne, sql } from 'drizzle-orm'
+import { and, desc, eq, inArray, isNull, ne, sql } from 'drizzle-orm'
 import type { H3Event } from 'h3'
 import { useDb, schema } from './db'
 import { httpError, MESSAGES } from './errors'
@@ -12,7 +12,7 @@ import { requireRole, type Viewer } from './auth'
 import { checkRecords } from './deposit/check'
 import { ingestContext, recordValidator } from './deposit/drafts'
 import { dataciteJson, toCitable } from './citation'
-import { ensureDoi, RegistrarError, registrarPrefix } from './registrar'
+import { ensureDraftDoi, makeFindable, RegistrarError, registrarPrefix } from './registrar'
 import { publicUrl, sendMail } from './mail'
 import { afterDatasetChange } from './search'
 import { rederiveVersions } from './derivations'
@@ -169,9 +169,11 @@ export async function acceptVersion (viewer: Viewer, datasetId: number, b: { com
   const ids = identifiersFor(datasetId, version.versionNumber)
   const now = new Date()
   const cv = toCitable({ ...version, doi: ids.version, publishedAt: now }, ids.concept, lab!.name)
+  // 1. reserve both identifiers as drafts (not public); 2. commit; 3. make them findable. A crash or a lost
+  // race between 1 and 2 leaves only drafts; a failure at 3 is finished by the reconciling job.
   try {
-    await ensureDoi(ids.concept, publicUrl(`/datasets/${datasetId}`), { ...dataciteJson({ ...cv, doi: ids.concept, conceptDoi: null }).data.attributes, doi: ids.concept })
-    await ensureDoi(ids.version, cv.landingUrl, dataciteJson(cv).data.attributes)
+    await ensureDraftDoi(ids.concept, publicUrl(`/datasets/${datasetId}`), { ...dataciteJson({ ...cv, doi: ids.concept, conceptDoi: null }).data.attributes, doi: ids.concept })
+    await ensureDraftDoi(ids.version, cv.landingUrl, dataciteJson(cv).data.attributes)
   } catch (e) {
     if (e instanceof RegistrarError) throw httpError(503, `${e.message}. Nothing was published; try again (the same identifiers will be used).`)
     throw e
@@ -185,11 +187,40 @@ export async function acceptVersion (viewer: Viewer, datasetId: number, b: { com
     await tx.insert(reviews).values({ versionId: version.id, curatorId: viewer.id, decision: 'accepted', comment: b.comment ?? '' })
     await tx.insert(auditEvents).values({ actorId: viewer.id, action: 'dataset.published', targetType: 'dataset_version', targetId: String(version.id), detail: { doi: ids.version, conceptDoi: ids.concept } })
   })
+  const findable = await makeVersionFindable(version.id, ids)
   await afterDatasetChange(datasetId)
   for (const to of await labEmails(dataset.labId)) {
     await sendMail(to, `Published: ${version.title}`, `"${version.title}" (v${version.versionNumber}) was accepted and published.\nCite it as https://doi.org/${ids.version} (all versions: https://doi.org/${ids.concept}).\n${publicUrl(`/datasets/${datasetId}`)}\n`)
   }
-  return { state: 'published', doi: ids.version, conceptDoi: ids.concept }
+  return { state: 'published', doi: ids.version, conceptDoi: ids.concept, identifiers: findable ? 'findable' : 'pending' }
+}
+
+/** Makes a committed version's identifiers findable and records when; false (and a later retry by the job) if the registrar fails. */
+async function makeVersionFindable (versionId: number, ids: { concept: string, version: string }): Promise<boolean> {
+  try {
+    await makeFindable(ids.concept)
+    await makeFindable(ids.version)
+  } catch (e) {
+    if (!(e instanceof RegistrarError)) throw e
+    console.error(`[crosspoint] identifiers of version ${versionId} stay reserved until the registrar answers: ${e.message}`)
+    return false
+  }
+  const db = await useDb()
+  await db.update(versions).set({ identifiersFindableAt: new Date() }).where(eq(versions.id, versionId))
+  return true
+}
+
+/**
+ * The reconciling job: published (or withdrawn) versions whose identifiers are still reserved drafts
+ * are made findable now (a registrar failure after the commit, a crash in between). Bounded per run.
+ */
+export async function reconcileIdentifiers (limit = 50): Promise<{ checked: number, madeFindable: number }> {
+  const db = await useDb()
+  const pending = await db.select({ id: versions.id, datasetId: versions.datasetId, versionNumber: versions.versionNumber }).from(versions)
+    .where(and(inArray(versions.state, ['published', 'withdrawn']), isNull(versions.identifiersFindableAt), sql`${versions.doi} is not null`)).limit(limit)
+  let made = 0
+  for (const v of pending) if (await makeVersionFindable(v.id, identifiersFor(v.datasetId, v.versionNumber))) made++
+  return { checked: pending.length, madeFindable: made }
 }
 
 /** A correction: a new draft version copying the newest published one (records keep their keys, for diffs). */

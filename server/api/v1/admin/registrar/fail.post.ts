@@ -7,8 +7,8 @@ defineRouteMeta({ openAPI: { tags: ['admin'], summary: 'Make the local registrar
 
 export default defineEventHandler(async (event) => {
   await requireRole(event, 'admin')
-  const { count } = await readValidated<{ count: number }>(event, { type: 'object', required: ['count'], additionalProperties: false, properties: { count: { type: 'integer', minimum: 0, maximum: 100 } } })
+  const { count, only } = await readValidated<{ count: number, only?: 'publish' }>(event, { type: 'object', required: ['count'], additionalProperties: false, properties: { count: { type: 'integer', minimum: 0, maximum: 100 }, only: { enum: ['publish'], description: 'fail only the step that makes identifiers findable' } } })
   if (!localRegistrarState()) throw httpError(409, 'A real registrar is configured; outages cannot be rehearsed')
-  failLocalRegistrar(count)
-  return { failNext: count }
+  failLocalRegistrar(count, only)
+  return only ? { failPublishNext: count } : { failNext: count }
 })
