@@ -5,7 +5,7 @@
  */
 import { createHash } from 'node:crypto'
 import { copyFile, mkdir, readdir, readFile, rename, rm, stat, writeFile } from 'node:fs/promises'
-import { dirname, isAbsolute, join, relative, resolve } from 'node:path'
+import { basename, dirname, isAbsolute, join, relative, resolve } from 'node:path'
 import { createClient } from '@libsql/client'
 import { assertIntact } from './db'
 
@@ -41,8 +41,13 @@ export async function backup (opts: { databaseUrl: string, dataDir: string, back
   const db = createClient({ url: `file:${resolveFileUrl(opts.databaseUrl)}` })
   try {
     await db.execute({ sql: 'VACUUM INTO ?', args: [join(folder, 'crosspoint.db')] })
-    const records = Number((await db.execute('select count(*) n from rate_record')).rows[0]!.n)
-    const publishedVersions = Number((await db.execute("select count(*) n from dataset_version where state = 'published'")).rows[0]!.n)
+    // counted in the copy, not the live database (which may have moved on since)
+    const copy = createClient({ url: `file:${join(folder, 'crosspoint.db')}` })
+    let records: number; let publishedVersions: number
+    try {
+      records = Number((await copy.execute('select count(*) n from rate_record')).rows[0]!.n)
+      publishedVersions = Number((await copy.execute("select count(*) n from dataset_version where state = 'published'")).rows[0]!.n)
+    } finally { copy.close() }
     const uploadsDir = join(resolve(opts.dataDir), 'uploads')
     for (const f of await listFiles(uploadsDir)) {
       const dest = join(folder, 'files', 'uploads', relative(uploadsDir, f))
@@ -74,14 +79,43 @@ export async function verifyBackup (folder: string): Promise<void> {
   try { await assertIntact(db, join(folder, 'crosspoint.db')) } finally { db.close() }
 }
 
-/** Verifies, then swaps the backup in (the server must be stopped). The replaced files are kept beside it. */
+// ── servers using a database file ─────────────────────────────────────────────────────────
+/** A running server marks the database it uses with `<file>.server-<pid>` (removed when it exits). */
+export function serverMarkPath (dbPath: string): string { return `${dbPath}.server-${process.pid}` }
+
+/** Process ids of live servers that have marked this database (stale marks of dead processes are removed). */
+export async function liveServers (dbPath: string): Promise<number[]> {
+  const dir = dirname(dbPath); const prefix = `${basename(dbPath)}.server-`
+  const live: number[] = []
+  for (const name of await readdir(dir).catch(() => [] as string[])) {
+    if (!name.startsWith(prefix)) continue
+    const pid = Number(name.slice(prefix.length))
+    if (!Number.isInteger(pid) || pid <= 0) continue
+    let alive = true
+    try { process.kill(pid, 0) } catch (e) { alive = (e as NodeJS.ErrnoException).code === 'EPERM' }
+    if (alive) live.push(pid); else await rm(join(dir, name), { force: true })
+  }
+  return live
+}
+
+/**
+ * Verifies, then swaps the backup in. Refused while a server uses the database (its next writes would be
+ * lost). The current database is checkpointed first (its WAL folded in) and kept beside, with any -wal
+ * and -shm files, so nothing committed is lost.
+ */
 export async function restore (opts: { folder: string, databaseUrl: string, dataDir: string }): Promise<{ kept: string }> {
   await verifyBackup(opts.folder)
   const target = resolveFileUrl(opts.databaseUrl)
+  const servers = await liveServers(target)
+  if (servers.length) throw new Error(`a Crosspoint server (process ${servers.join(', ')}) is using ${target}; stop it, then restore`)
   const kept = `${target}.before-restore-${Date.now()}`
   await mkdir(dirname(target), { recursive: true })
-  await rename(target, kept).catch(() => {})
-  for (const ext of ['-wal', '-shm']) await rm(target + ext, { force: true })
+  if (await stat(target).then(() => true, () => false)) {
+    const db = createClient({ url: `file:${target}` })
+    try { await db.execute('PRAGMA wal_checkpoint(TRUNCATE)') } catch { /* not a WAL database, or damaged: kept as it is */ } finally { db.close() }
+    await rename(target, kept)
+  }
+  for (const ext of ['-wal', '-shm']) await rename(target + ext, kept + ext).catch(() => {})
   await copyFile(join(opts.folder, 'crosspoint.db'), target)
   const uploads = join(resolve(opts.dataDir), 'uploads')
   for (const f of await listFiles(join(opts.folder, 'files', 'uploads'))) {

@@ -6,6 +6,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import AdmZip from 'adm-zip'
 import { api, DEMO, ROOT, SERVER_ENTRY, freePort, signIn, startServer, type TestServer } from '../helpers/server'
 import { restore, verifyBackup } from '../../server/utils/backup'
+import { createClient } from '@libsql/client'
 
 let s: TestServer
 let a = ''; let admin = ''
@@ -72,6 +73,33 @@ describe('backups', () => {
       expect(await publishedSnapshot(restored.url)).toEqual(before)
       expect((await api(restored.url, '/api/v1/health')).data.status).toBe('ok')
     } finally { await restored.stop() }
+  }, 120_000)
+  it('restore refuses while a server uses the database; counts in backup.json come from the copy', async () => {
+    const b = await api(s.url, '/api/v1/admin/backups', { method: 'POST', headers: { cookie: admin } })
+    const meta = JSON.parse(readFileSync(join(b.data.folder, 'backup.json'), 'utf8'))
+    const copy = createClient({ url: `file:${join(b.data.folder, 'crosspoint.db')}` })
+    expect(meta.records).toBe(Number((await copy.execute('select count(*) n from rate_record')).rows[0]!.n))
+    copy.close()
+    // the live server of this file has marked it
+    await expect(restore({ folder: b.data.folder, databaseUrl: s.dbUrl, dataDir: join(s.dir, 'files') })).rejects.toThrow(/a Crosspoint server \(process \d+\) is using .*; stop it, then restore/)
+    expect((await api(s.url, '/api/v1/health')).data.status).toBe('ok')
+  }, 120_000)
+  it('restore keeps every committed row of the replaced database: checkpointed, with its -wal and -shm beside it', async () => {
+    const b = await api(s.url, '/api/v1/admin/backups', { method: 'POST', headers: { cookie: admin } })
+    const dir = mkdtempSync(join(tmpdir(), 'crosspoint-kept-'))
+    const target = join(dir, 'live.db')
+    // a database in WAL mode with committed rows still in its -wal (a connection kept open, no checkpoint)
+    const live = createClient({ url: `file:${target}` })
+    await live.execute('PRAGMA journal_mode = WAL')
+    await live.execute('PRAGMA wal_autocheckpoint = 0')
+    await live.execute('create table t (x integer)')
+    for (let i = 0; i < 50; i++) await live.execute({ sql: 'insert into t values (?)', args: [i] })
+    expect(existsSync(`${target}-wal`)).toBe(true)
+    const res = await restore({ folder: b.data.folder, databaseUrl: `file:${target}`, dataDir: join(dir, 'files') })
+    live.close()
+    const kept = createClient({ url: `file:${res.kept}` })
+    expect(Number((await kept.execute('select count(*) n from t')).rows[0]!.n)).toBe(50)
+    kept.close()
   }, 120_000)
   it('a tampered backup is refused before anything is replaced', async () => {
     const b = await api(s.url, '/api/v1/admin/backups', { method: 'POST', headers: { cookie: admin } })
