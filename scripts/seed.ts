@@ -6,7 +6,7 @@
 import { eq } from 'drizzle-orm'
 import { hash } from '@node-rs/argon2'
 import { openDatabase, schema } from '../server/utils/db'
-import { recordColumns } from '../shared/records/types'
+import { recordColumns } from '../shared/records/record-columns'
 import { DATASETS, DEMO_PASSWORD, LABS, PEOPLE, SOLVENTS, demoMetadata, demoRecords } from './lib/scenario'
 
 const prefix = process.env.NUXT_REGISTRAR_PREFIX ?? '10.99999'

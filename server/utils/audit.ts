@@ -1,7 +1,7 @@
-/** The audit trail: who changed what, when. Written for every role, membership and review change. */
-import { useDb, schema } from './db'
+/** The audit trail: who changed what, when. Every audit row is written here (inside the caller's transaction when given one). */
+import { useDb, schema, type Db, type Tx } from './db'
 
-export async function audit (actorId: string | null, action: string, targetType: string, targetId: string | number, detail?: Record<string, unknown>): Promise<void> {
-  const db = await useDb()
+export async function audit (actorId: string | null, action: string, targetType: string, targetId: string | number, detail?: Record<string, unknown>, via?: Db | Tx): Promise<void> {
+  const db = via ?? await useDb()
   await db.insert(schema.auditEvents).values({ actorId, action, targetType, targetId: String(targetId), detail: detail ?? null })
 }

@@ -2,10 +2,13 @@
  * Who is asking: a signed-in session (JWT cookie) or a personal API token (Authorization: Bearer).
  * Guards return the viewer or throw 401/403; rows of other labs are hidden as 404 by the callers.
  */
-import { createHash } from 'node:crypto'
 import { and, eq, isNull } from 'drizzle-orm'
 import { hash, verify } from '@node-rs/argon2'
 import { recordFailure, slowAfterFailures } from './rate-limit'
+import { hashToken } from './secret-hash'
+import { consumeOneTimeToken } from './one-time-tokens'
+
+export { hashToken }
 import { getHeader, type H3Event } from 'h3'
 import { getToken } from '#auth'
 import { sessionStands, type SessionClaims } from './sessions'
@@ -26,9 +29,6 @@ export function normalizeEmail (email: unknown): string {
   return String(email ?? '').normalize('NFC').trim().toLowerCase()
 }
 
-export function hashToken (token: string): string {
-  return createHash('sha256').update(token).digest('hex')
-}
 
 /**
  * Checks a password against the stored argon2id hash; null when either is wrong or the address is
@@ -46,7 +46,6 @@ export async function verifyPassword (email: string, password: string) {
 
 /** Signs in with the token of an e-mailed link (one use, short-lived). */
 export async function signInWithLink (token: string) {
-  const { consumeOneTimeToken } = await import('./one-time-tokens')
   const t = await consumeOneTimeToken(token, 'login')
   if (!t) return null
   const db = await useDb()

@@ -11,6 +11,8 @@ import { migrate } from 'drizzle-orm/libsql/migrator'
 import * as schema from '../database/schema'
 
 export type Db = LibSQLDatabase<typeof schema>
+/** The handle a transaction callback receives (one name for it everywhere). */
+export type Tx = Parameters<Parameters<Db['transaction']>[0]>[0]
 export { schema }
 
 let ready: Promise<{ db: Db, client: Client }> | undefined

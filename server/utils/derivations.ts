@@ -5,13 +5,14 @@
  */
 import { and, eq, inArray, sql } from 'drizzle-orm'
 import { rederive } from '../../shared/records/derivation'
-import { recordColumns, type RateRecordV1 } from '../../shared/records/types'
-import { schema, type Db } from './db'
+import { recordColumns } from '../../shared/records/record-columns'
+import type { RateRecordV1 } from '../../shared/records/types'
+import { audit } from './audit'
+import { schema, type Db, type Tx } from './db'
 import { currentPublishedVersionIds } from './archive'
 
 const { rateRecords: records, datasetVersions: versions, datasets, labs, auditEvents, dataMigrations } = schema
 
-type Tx = Parameters<Parameters<Db['transaction']>[0]>[0]
 
 /** Re-derives the records of the given versions in one transaction; returns how many changed. */
 async function rederiveVersions (tx: Tx | Db, versionIds: number[]): Promise<{ changed: number, ids: number[] }> {
@@ -45,7 +46,7 @@ export async function applyDataMigrations (db: Db): Promise<void> {
       const byVersion = await tx.select({ versionId: records.versionId, n: sql<number>`count(*)` }).from(records).where(inArray(records.id, res.ids)).groupBy(records.versionId)
       for (const v of byVersion) {
         const datasetId = editable.find(e => e.id === v.versionId)!.datasetId
-        await tx.insert(auditEvents).values({ actorId: null, action: 'dataset.rederived', targetType: 'dataset', targetId: String(datasetId), detail: { records: v.n, rule: 'ΔG° from potentials by process', migration: REDERIVE_MIGRATION } })
+        await audit(null, 'dataset.rederived', 'dataset', datasetId, { records: v.n, rule: 'ΔG° from potentials by process', migration: REDERIVE_MIGRATION }, tx)
       }
     }
     await tx.insert(dataMigrations).values({ name: REDERIVE_MIGRATION, appliedAt: new Date(), detail: { records: res.changed } })

@@ -5,7 +5,7 @@
 import { randomBytes } from 'node:crypto'
 import { and, eq, gt, inArray } from 'drizzle-orm'
 import { useDb, schema } from './db'
-import { hashToken } from './auth'
+import { hashToken } from './secret-hash'
 
 export type TokenPurpose = 'verify' | 'login' | 'reset' | `invite:${number}`
 

@@ -6,7 +6,8 @@
 import { createHash } from 'node:crypto'
 import { and, desc, eq, inArray, isNull, ne, sql } from 'drizzle-orm'
 import type { H3Event } from 'h3'
-import { useDb, schema } from './db'
+import { audit } from './audit'
+import { useDb, schema, type Tx } from './db'
 import { httpError, MESSAGES } from './errors'
 import { requireRole, type Viewer } from './auth'
 import { checkRecords } from './deposit/check'
@@ -19,7 +20,6 @@ import { rederiveVersions } from './derivations'
 
 const { datasets, datasetVersions: versions, rateRecords: records, labs, reviews, recordComments, users, labMemberships, auditEvents } = schema
 type Version = typeof versions.$inferSelect
-type Tx = Parameters<Parameters<Awaited<ReturnType<typeof useDb>>['transaction']>[0]>[0]
 
 export const OWN_LAB = 'A curator never reviews a dataset of their own lab'
 
@@ -127,7 +127,7 @@ async function labEmails (labId: number): Promise<string[]> {
 }
 
 /** Moves a version out of "submitted" only if nobody else did since the curator loaded it. */
-async function transition (tx: Parameters<Parameters<Awaited<ReturnType<typeof useDb>>['transaction']>[0]>[0], version: Version, expectedUpdatedAt: number, set: Partial<Version>) {
+async function transition (tx: Tx, version: Version, expectedUpdatedAt: number, set: Partial<Version>) {
   const rows = await tx.update(versions).set({ ...set, updatedAt: new Date() })
     .where(and(eq(versions.id, version.id), eq(versions.state, 'submitted'), eq(versions.updatedAt, new Date(expectedUpdatedAt)))).returning({ id: versions.id })
   if (!rows.length) throw httpError(409, 'Another curator acted on this submission, or it changed since you opened it; reload to see its current state')
@@ -144,7 +144,7 @@ export async function returnVersion (viewer: Viewer, datasetId: number, b: { com
     await transition(tx, version, b.expectedUpdatedAt, { state: 'returned' })
     const [rev] = await tx.insert(reviews).values({ versionId: version.id, curatorId: viewer.id, decision: 'returned', comment: b.comment, snapshot: recs.map(r => ({ key: r.recordKey, hash: hashData(r.data) })) }).returning()
     for (const c of b.recordComments ?? []) await tx.insert(recordComments).values({ reviewId: rev!.id, recordId: c.recordId, body: c.body })
-    await tx.insert(auditEvents).values({ actorId: viewer.id, action: 'dataset.returned', targetType: 'dataset_version', targetId: String(version.id), detail: { comments: (b.recordComments ?? []).length } })
+    await audit(viewer.id, 'dataset.returned', 'dataset_version', version.id, { comments: (b.recordComments ?? []).length }, tx)
   })
   await afterDatasetChange(datasetId)
   for (const to of await labEmails(dataset.labId)) {
@@ -185,7 +185,7 @@ export async function acceptVersion (viewer: Viewer, datasetId: number, b: { com
     })
     await tx.update(datasets).set({ conceptDoi: ids.concept, updatedAt: now }).where(eq(datasets.id, datasetId))
     await tx.insert(reviews).values({ versionId: version.id, curatorId: viewer.id, decision: 'accepted', comment: b.comment ?? '' })
-    await tx.insert(auditEvents).values({ actorId: viewer.id, action: 'dataset.published', targetType: 'dataset_version', targetId: String(version.id), detail: { doi: ids.version, conceptDoi: ids.concept } })
+    await audit(viewer.id, 'dataset.published', 'dataset_version', version.id, { doi: ids.version, conceptDoi: ids.concept }, tx)
   })
   const findable = await makeVersionFindable(version.id, ids)
   await afterDatasetChange(datasetId)
@@ -231,7 +231,7 @@ export async function newVersion (viewer: Viewer, datasetId: number) {
   const latest = await publishedForNewVersion(datasetId)
   return db.transaction(async (tx) => {
     const nv = await copyToDraft(tx, latest)
-    await tx.insert(auditEvents).values({ actorId: viewer.id, action: 'dataset.new-version', targetType: 'dataset', targetId: String(datasetId), detail: { versionNumber: nv.versionNumber } })
+    await audit(viewer.id, 'dataset.new-version', 'dataset', datasetId, { versionNumber: nv.versionNumber }, tx)
     return { versionNumber: nv.versionNumber, state: 'draft' }
   }).then(async (r) => { await afterDatasetChange(datasetId); return r })
 }
@@ -267,7 +267,7 @@ export async function startDerivationCorrection (viewer: Viewer, datasetId: numb
     const nv = await copyToDraft(tx, latest)
     const { changed } = await rederiveVersions(tx, [nv.id])
     if (!changed) throw httpError(409, 'No record of the newest published version differs from the derivation by process; nothing to correct')
-    await tx.insert(auditEvents).values({ actorId: viewer.id, action: 'dataset.correction-started', targetType: 'dataset', targetId: String(datasetId), detail: { versionNumber: nv.versionNumber, rederived: changed, rule: 'ΔG° from potentials by process' } })
+    await audit(viewer.id, 'dataset.correction-started', 'dataset', datasetId, { versionNumber: nv.versionNumber, rederived: changed, rule: 'ΔG° from potentials by process' }, tx)
     return { versionNumber: nv.versionNumber, state: 'draft' as const, rederived: changed }
   })
   await afterDatasetChange(datasetId)
@@ -286,7 +286,7 @@ export async function withdrawDataset (viewer: Viewer, datasetId: number, reason
   const now = new Date()
   await db.transaction(async (tx) => {
     await tx.update(versions).set({ state: 'withdrawn', withdrawnAt: now, withdrawalReason: reason, updatedAt: now }).where(and(eq(versions.datasetId, datasetId), eq(versions.state, 'published')))
-    await tx.insert(auditEvents).values({ actorId: viewer.id, action: 'dataset.withdrawn', targetType: 'dataset', targetId: String(datasetId), detail: { reason } })
+    await audit(viewer.id, 'dataset.withdrawn', 'dataset', datasetId, { reason }, tx)
   })
   await afterDatasetChange(datasetId)
   for (const to of await labEmails(d.labId)) await sendMail(to, `Withdrawn: dataset ${datasetId}`, `The dataset was withdrawn: ${reason}\nIts identifiers keep resolving to a tombstone page: ${publicUrl(`/datasets/${datasetId}`)}\n`)

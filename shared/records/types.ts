@@ -2,7 +2,6 @@
  * TypeScript view of schemas/rate-record.v1.json (canonical units). The JSON Schema is the
  * source of truth; keep the two in step (a unit test validates typed fixtures against it).
  */
-import { CSV_FORMAT, recordCsvLine } from './csv'
 
 export type Linkage = 'covalent' | 'supramolecular' | 'bimolecular' | 'protein' | 'other'
 export type ProcessKind = 'charge-separation' | 'charge-recombination' | 'charge-shift' | 'hole-transfer' | 'other'
@@ -55,22 +54,3 @@ export interface DatasetMetadataV1 {
 }
 
 /** The searchable columns (and the bundle CSV line) stored beside each record's JSON. */
-export function recordColumns (r: RateRecordV1) {
-  return {
-    csvLine: recordCsvLine(r),
-    csvFormat: CSV_FORMAT,
-    donorName: r.system.donor.name,
-    acceptorName: r.system.acceptor.name,
-    bridgeName: r.system.bridge?.name ?? null,
-    linkage: r.system.linkage,
-    process: r.process,
-    solvent: r.medium.solvent ?? r.medium.matrix ?? null,
-    technique: r.technique.method,
-    temperatureK: r.temperatureK,
-    distanceAngstrom: r.geometry?.centerToCenterAngstrom ?? r.geometry?.edgeToEdgeAngstrom ?? null,
-    rate: r.rate.value,
-    rateKind: r.rate.kind,
-    log10Rate: Math.log10(r.rate.value),
-    deltaG: r.drivingForce?.value ?? null
-  }
-}

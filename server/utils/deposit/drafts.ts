@@ -3,12 +3,13 @@ import { createHash, randomUUID } from 'node:crypto'
 import { join } from 'node:path'
 import { and, desc, eq, inArray, sql } from 'drizzle-orm'
 import type { H3Event } from 'h3'
-import { useDb, schema } from '../db'
+import { useDb, schema, type Tx } from '../db'
 import { httpError, MESSAGES } from '../errors'
 import { requireUser, type Viewer } from '../auth'
 import { compile } from '../validation'
 import rateRecordSchema from '../../../schemas/rate-record.v1.json'
-import { recordColumns, type RateRecordV1 } from '../../../shared/records/types'
+import { recordColumns } from '../../../shared/records/record-columns'
+import type { RateRecordV1 } from '../../../shared/records/types'
 import type { IngestContext, SchemaValidator } from '../../../shared/records/ingest'
 import { afterDatasetChange } from '../search'
 import { dataDirectory } from '../fixity'
@@ -66,7 +67,7 @@ export async function readOriginal (storageKey: string): Promise<Uint8Array> {
 }
 
 /** Appends (or, with replace, swaps in) records of a draft version in one transaction; all or nothing. */
-export async function writeRecords (versionId: number, records: RateRecordV1[], mode: 'append' | 'replace', first?: (tx: Parameters<Parameters<Awaited<ReturnType<typeof useDb>>['transaction']>[0]>[0]) => Promise<void>): Promise<number> {
+export async function writeRecords (versionId: number, records: RateRecordV1[], mode: 'append' | 'replace', first?: (tx: Tx) => Promise<void>): Promise<number> {
   const db = await useDb()
   const n = await db.transaction(async (tx) => {
     if (first) await first(tx) // e.g. claim the upload, in the same transaction as the rows

@@ -30,7 +30,7 @@ export async function createDraft (viewer: Viewer, labId: number, title: string,
   return db.transaction(async (tx) => {
     const [d] = await tx.insert(schema.datasets).values({ labId, createdBy: viewer.id }).returning()
     await tx.insert(schema.datasetVersions).values({ datasetId: d!.id, versionNumber: 1, state: 'draft', title, description, metadata: metadata as never, license: metadata.license })
-    await tx.insert(schema.auditEvents).values({ actorId: viewer.id, action: 'dataset.created', targetType: 'dataset', targetId: String(d!.id), detail: { labId } })
+    await audit(viewer.id, 'dataset.created', 'dataset', d!.id, { labId }, tx)
     return { id: d!.id, versionNumber: 1, state: 'draft' }
   }).then(async (r) => { await afterDatasetChange(r.id); return r })
 }

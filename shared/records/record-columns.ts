@@ -1,0 +1,23 @@
+/** The rate_record table's columns derived from a record (and its stored CSV line), for every path that writes records. */
+import { CSV_FORMAT, recordCsvLine } from './csv'
+import type { RateRecordV1 } from './types'
+
+export function recordColumns (r: RateRecordV1) {
+  return {
+    csvLine: recordCsvLine(r),
+    csvFormat: CSV_FORMAT,
+    donorName: r.system.donor.name,
+    acceptorName: r.system.acceptor.name,
+    bridgeName: r.system.bridge?.name ?? null,
+    linkage: r.system.linkage,
+    process: r.process,
+    solvent: r.medium.solvent ?? r.medium.matrix ?? null,
+    technique: r.technique.method,
+    temperatureK: r.temperatureK,
+    distanceAngstrom: r.geometry?.centerToCenterAngstrom ?? r.geometry?.edgeToEdgeAngstrom ?? null,
+    rate: r.rate.value,
+    rateKind: r.rate.kind,
+    log10Rate: Math.log10(r.rate.value),
+    deltaG: r.drivingForce?.value ?? null
+  }
+}
