@@ -5,13 +5,9 @@ import { resolve } from 'node:path'
 
 // https://nuxt.com/docs/api/nuxt-config
 export default defineNuxtConfig({
-  compatibilityDate: '2025-07-15',
-  devtools: { enabled: false },
-  telemetry: false,
-  modules: ['@nuxtjs/tailwindcss', '@pinia/nuxt', '@sidebase/nuxt-auth'],
-  css: ['~/assets/css/main.css'],
+  modules: ['@nuxtjs/tailwindcss', '@pinia/nuxt', '@sidebase/nuxt-auth', '@nuxt/eslint'],
   components: [{ path: '~/components', pathPrefix: false }],
-  tailwindcss: { cssPath: '~/assets/css/main.css', configPath: 'tailwind.config.ts', viewer: false },
+  devtools: { enabled: false },
   app: {
     head: {
       htmlAttrs: { lang: 'en' },
@@ -24,12 +20,7 @@ export default defineNuxtConfig({
       link: [{ rel: 'icon', type: 'image/svg+xml', href: '/favicon.svg' }]
     }
   },
-  auth: {
-    baseURL: '/api/auth',
-    originEnvKey: 'AUTH_ORIGIN',
-    globalAppMiddleware: false,
-    provider: { type: 'authjs', trustHost: false, defaultProvider: 'credentials', addDefaultCallbackUrl: true }
-  },
+  css: ['~/assets/css/main.css'],
   runtimeConfig: {
     databaseUrl: 'file:./data/crosspoint.db',
     databaseAuthToken: '',
@@ -50,6 +41,7 @@ export default defineNuxtConfig({
   routeRules: {
     '/**': { headers: { 'x-content-type-options': 'nosniff', 'referrer-policy': 'same-origin', 'x-frame-options': 'DENY' } }
   },
+  compatibilityDate: '2025-07-15',
   nitro: {
     experimental: { openAPI: true },
     openAPI: {
@@ -70,5 +62,15 @@ export default defineNuxtConfig({
       }
     }
   },
-  typescript: { strict: true }
+  typescript: { strict: true },
+  telemetry: false,
+  auth: {
+    baseURL: '/api/auth',
+    originEnvKey: 'AUTH_ORIGIN',
+    globalAppMiddleware: false,
+    provider: { type: 'authjs', trustHost: false, defaultProvider: 'credentials', addDefaultCallbackUrl: true }
+  },
+  // ESLint through Nuxt's flat-config integration; its stylistic rules are the one formatter (npm run lint:fix)
+  eslint: { config: { stylistic: { indent: 2, quotes: 'single', semi: false, commaDangle: 'never' } } },
+  tailwindcss: { cssPath: '~/assets/css/main.css', configPath: 'tailwind.config.ts', viewer: false }
 })

@@ -13,10 +13,13 @@ import { report } from './report'
 const entry = join(import.meta.dirname, '../.output/server/index.mjs')
 if (!existsSync(entry) || !existsSync('/usr/bin/chromium')) { process.stderr.write('compare benchmark skipped: needs `npm run build` and /usr/bin/chromium\n'); process.exit(0) }
 const dir = mkdtempSync(join(tmpdir(), 'crosspoint-compare-bench-'))
-const port = await new Promise<number>(r => { const s = createServer(); s.listen(0, '127.0.0.1', () => { const p = (s.address() as { port: number }).port; s.close(() => r(p)) }) })
+const port = await new Promise<number>((r) => { const s = createServer(); s.listen(0, '127.0.0.1', () => { const p = (s.address() as { port: number }).port; s.close(() => r(p)) }) })
 const url = `http://127.0.0.1:${port}`
 const proc = spawn(process.execPath, [entry], { env: { ...process.env, PORT: String(port), HOST: '127.0.0.1', NUXT_DATABASE_URL: `file:${join(dir, 'c.db')}`, NUXT_DATA_DIR: dir, AUTH_ORIGIN: `${url}/api/auth`, NUXT_AUTH_SECRET: 'bench-secret-not-for-production' }, stdio: 'ignore' })
-for (let i = 0; i < 300; i++) { try { if ((await fetch(`${url}/api/v1/health`)).ok) break } catch { /* starting */ } await new Promise(r => setTimeout(r, 100)) }
+for (let i = 0; i < 300; i++) {
+  try { if ((await fetch(`${url}/api/v1/health`)).ok) break }
+  catch { /* starting */ } await new Promise(r => setTimeout(r, 100))
+}
 const browser = await chromium.launch({ executablePath: '/usr/bin/chromium', headless: true, args: ['--no-sandbox', '--disable-gpu', '--disable-quic', '--no-first-run', '--disable-background-networking', '--disable-component-update', '--disable-sync'] })
 const page = await browser.newPage({ viewport: { width: 1360, height: 900 } })
 await page.goto(`${url}/signin`)
@@ -30,7 +33,7 @@ await page.goto(`${url}/compare`, { waitUntil: 'networkidle' })
 await page.waitForFunction(() => document.querySelectorAll('[data-test=rate-plot] svg circle').length >= 5000, undefined, { timeout: 60_000 })
 const times: number[] = []
 for (let k = 0; k < 16; k++) {
-  const ms = await page.evaluate((value) => new Promise<number>((resolve) => {
+  const ms = await page.evaluate(value => new Promise<number>((resolve) => {
     const host = document.querySelector('[data-test=rate-plot]')!
     const input = document.querySelector<HTMLInputElement>('input[aria-label^="λ_s solvent reorganization"]')!
     const t0 = performance.now()

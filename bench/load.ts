@@ -23,7 +23,7 @@ const dir = mkdtempSync(join(tmpdir(), 'crosspoint-load-'))
 const dbUrl = `file:${join(dir, 'load.db')}`
 const { seed } = await import('../scripts/seed')
 await seed(dbUrl)
-const port = await new Promise<number>(r => { const s = createServer(); s.listen(0, '127.0.0.1', () => { const p = (s.address() as { port: number }).port; s.close(() => r(p)) }) })
+const port = await new Promise<number>((r) => { const s = createServer(); s.listen(0, '127.0.0.1', () => { const p = (s.address() as { port: number }).port; s.close(() => r(p)) }) })
 const url = `http://127.0.0.1:${port}`
 // LOAD_HEAP_MB caps the server's JavaScript heap: RSS that still grows then is native memory, not garbage
 const heap = process.env.LOAD_HEAP_MB ? [`--max-old-space-size=${process.env.LOAD_HEAP_MB}`] : []
@@ -42,7 +42,10 @@ proc.stdout!.setEncoding('utf8').on('data', (chunk: string) => {
     if (m && measuring) fullGcs.push({ liveMb: Number(m[1]) })
   }
 })
-for (let i = 0; i < 300; i++) { try { if ((await fetch(`${url}/api/v1/health`)).ok) break } catch { /* starting */ } await new Promise(r => setTimeout(r, 100)) }
+for (let i = 0; i < 300; i++) {
+  try { if ((await fetch(`${url}/api/v1/health`)).ok) break }
+  catch { /* starting */ } await new Promise(r => setTimeout(r, 100))
+}
 const rss = () => Number(readFileSync(`/proc/${proc.pid}/status`, 'utf8').match(/VmRSS:\s+(\d+)/)![1]) / 1024
 const ids = (await (await fetch(`${url}/api/v1/records?pageSize=200`)).json() as { items: { id: number }[] }).items.map(i => i.id)
 const words = ['porphyrin', 'znp', 'benzonitril', 'viologen', 'acridinium', 'copper', 'imide', 'water']
@@ -67,7 +70,10 @@ await run(Number(process.env.LOAD_WARMUP_SECONDS ?? 20))
 measuring = true
 const rssStart = rss()
 const samples: number[] = [rssStart]
-const sampler = setInterval(() => { try { samples.push(rss()) } catch { /* ended */ } }, 5000)
+const sampler = setInterval(() => {
+  try { samples.push(rss()) }
+  catch { /* ended */ }
+}, 5000)
 const res = await run(Number(process.env.LOAD_SECONDS ?? 60))
 const codes = res.statusCodeStats as Record<string, { count: number }>
 const fiveXX = Object.entries(codes).filter(([c]) => c.startsWith('5')).reduce((s, [, v]) => s + v.count, 0)

@@ -62,7 +62,8 @@ if (want('search.http.requests_per_second') || want('search.server.rss_mb')) {
   const entry = join(import.meta.dirname, '../.output/server/index.mjs')
   if (!existsSync(entry)) {
     process.stderr.write('search HTTP benchmark skipped: run `npm run build` first\n')
-  } else {
+  }
+  else {
     const { db, client } = await openDatabase(process.env.NUXT_DATABASE_URL!)
     const [lab] = await db.insert(schema.labs).values({ slug: 'bench', name: 'Bench lab (invented)' }).returning()
     const [d] = await db.insert(schema.datasets).values({ labId: lab!.id }).returning()
@@ -71,11 +72,12 @@ if (want('search.http.requests_per_second') || want('search.server.rss_mb')) {
       for (let i = 0; i < N; i += 1000) await tx.insert(schema.rateRecords).values(Array.from({ length: 1000 }, (_, j) => { const data = pool[(i + j) % pool.length]!; return { versionId: v!.id, position: i + j + 1, recordKey: `b${i + j}`, data: data as never, ...recordColumns(data) } }))
     })
     client.close()
-    const port = await new Promise<number>(r => { const s = createServer(); s.listen(0, '127.0.0.1', () => { const p = (s.address() as { port: number }).port; s.close(() => r(p)) }) })
+    const port = await new Promise<number>((r) => { const s = createServer(); s.listen(0, '127.0.0.1', () => { const p = (s.address() as { port: number }).port; s.close(() => r(p)) }) })
     const url = `http://127.0.0.1:${port}`
     const proc = spawn(process.execPath, [entry], { env: { ...process.env, PORT: String(port), HOST: '127.0.0.1', AUTH_ORIGIN: `${url}/api/auth`, NUXT_DATA_DIR: dir, NUXT_AUTH_SECRET: 'bench-secret-not-for-production' }, stdio: 'ignore' })
     for (let i = 0; i < 600; i++) {
-      try { const r = await fetch(`${url}/api/v1/records?q=porphyrin&pageSize=1`); if (r.ok && (await r.json() as { total: number }).total > 0) break } catch { /* starting */ }
+      try { const r = await fetch(`${url}/api/v1/records?q=porphyrin&pageSize=1`); if (r.ok && (await r.json() as { total: number }).total > 0) break }
+      catch { /* starting */ }
       await new Promise(r => setTimeout(r, 100))
     }
     let i = 0

@@ -90,7 +90,8 @@ export async function seed (url = process.env.NUXT_DATABASE_URL ?? 'file:./data/
       counts[t] = (await client.execute(`select count(*) as n from "${t}"`)).rows[0]!.n as number
     }
     return counts
-  } finally {
+  }
+  finally {
     client.close()
   }
 }

@@ -12,7 +12,9 @@ export function useFit () {
     fitting.value = true; problem.value = null; result.value = null
     try {
       result.value = await $fetch<FitResult>('/api/v1/model/fit', { method: 'POST', body })
-    } catch (e) { problem.value = apiProblem(e) } finally { fitting.value = false }
+    }
+    catch (e) { problem.value = apiProblem(e) }
+    finally { fitting.value = false }
   }
   function clear (): void { result.value = null; problem.value = null }
   /** The curve parameters with the fitted values in place (λ from a classical fit becomes λ_s with λ_i = 0). */

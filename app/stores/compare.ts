@@ -53,7 +53,8 @@ export const useCompareStore = defineStore('compare', () => {
     try {
       ownPoints.value = JSON.parse(localStorage.getItem('crosspoint.compare.own') ?? '[]')
       if (!recordIds.value.length) recordIds.value = JSON.parse(localStorage.getItem('crosspoint.compare.ids') ?? '[]')
-    } catch { /* nothing kept */ }
+    }
+    catch { /* nothing kept */ }
     watch(recordIds, v => localStorage.setItem('crosspoint.compare.ids', JSON.stringify(v)))
     watch(ownPoints, v => localStorage.setItem('crosspoint.compare.own', JSON.stringify(v)), { deep: true })
   }

@@ -63,18 +63,18 @@ export const PEOPLE = [
  * stand for assemblies a record would not draw, and get none, as many real records would.
  */
 export const DEMO_SMILES: Record<string, string> = {
-  triethylamine: 'CCN(CC)CC',
-  DABCO: 'C1CN2CCN1CC2',
+  'triethylamine': 'CCN(CC)CC',
+  'DABCO': 'C1CN2CCN1CC2',
   'N,N-dimethylaniline': 'CN(C)c1ccccc1',
   'tri-p-tolylamine': 'Cc1ccc(cc1)N(c1ccc(C)cc1)c1ccc(C)cc1',
   'MV2+': 'C[n+]1ccc(cc1)-c1cc[n+](C)cc1',
   'BV2+': 'C(c1ccccc1)[n+]1ccc(cc1)-c1cc[n+](Cc2ccccc2)cc1',
   'Acr+': 'C[n+]1c2ccccc2cc2ccccc12',
-  mesityl: 'Cc1cc(C)cc(C)c1',
-  durene: 'Cc1cc(C)c(C)cc1C',
-  xylyl: 'Cc1ccc(C)cc1',
-  dimethoxynaphthalene: 'COc1ccc2cc(OC)ccc2c1',
-  dicyanovinyl: 'C=C(C#N)C#N'
+  'mesityl': 'Cc1cc(C)cc(C)c1',
+  'durene': 'Cc1cc(C)c(C)cc1C',
+  'xylyl': 'Cc1ccc(C)cc1',
+  'dimethoxynaphthalene': 'COc1ccc2cc(OC)ccc2c1',
+  'dicyanovinyl': 'C=C(C#N)C#N'
 }
 
 interface Family {
@@ -186,7 +186,8 @@ export function demoRecords (ds: DemoDataset, versionIndex: number): RateRecordV
     const T = r.pick(f.temperatures)
     const dg = f.dgRange[0] + (f.dgRange[1] - f.dgRange[0]) * r.next()
     const bridge = f.bridges ? r.pick(f.bridges) : undefined
-    const R = bridge && f.bridgeDistances ? f.bridgeDistances[bridge]! + 0.4 * (r.next() - 0.5)
+    const R = bridge && f.bridgeDistances
+      ? f.bridgeDistances[bridge]! + 0.4 * (r.next() - 0.5)
       : f.distances ? f.distances[0] + (f.distances[1] - f.distances[0]) * r.next() : undefined
     const R0 = f.bridgeDistances ? Math.min(...Object.values(f.bridgeDistances)) : f.distances?.[0]
     let V = f.coupling
@@ -243,8 +244,10 @@ export function demoRecords (ds: DemoDataset, versionIndex: number): RateRecordV
       const eOx = round(0.6 + 0.6 * r.next(), 3)
       const coulomb = rehmWeller({ donorOxidationPotential: 0, donorReference: 'SCE', acceptorReductionPotential: 0, acceptorReference: 'SCE', excitationEnergy: 0, distance: round(R, 2), solventPermittivity: eps }).terms.coulomb
       // invert the process's formula for E_red so that the derivation gives the drawn ΔG°
-      const eRed = round(f.process === 'charge-separation' ? eOx - e00 + coulomb - dg
-        : f.process === 'charge-recombination' ? eOx + coulomb + dg
+      const eRed = round(f.process === 'charge-separation'
+        ? eOx - e00 + coulomb - dg
+        : f.process === 'charge-recombination'
+          ? eOx + coulomb + dg
           : eOx - e00 - dg, 3)
       const redox = { donorOxidationPotential: eOx, donorReference: 'SCE', acceptorReductionPotential: eRed, acceptorReference: 'SCE', excitationEnergy: e00 }
       const d = drivingForceByProcess(f.process, { ...redox, distance: round(R, 2), solventPermittivity: eps })

@@ -8,16 +8,16 @@ export default defineEventHandler((event) => {
   const nonce = randomBytes(16).toString('base64')
   event.context.cspNonce = nonce
   const csp = [
-    "default-src 'self'",
+    'default-src \'self\'',
     `script-src 'self' 'nonce-${nonce}'`,
-    "style-src 'self' 'unsafe-inline'",
-    "img-src 'self' data: blob:",
-    "font-src 'self' data:",
-    "connect-src 'self'",
-    "object-src 'none'",
-    "base-uri 'self'",
-    "form-action 'self'",
-    "frame-ancestors 'none'"
+    'style-src \'self\' \'unsafe-inline\'',
+    'img-src \'self\' data: blob:',
+    'font-src \'self\' data:',
+    'connect-src \'self\'',
+    'object-src \'none\'',
+    'base-uri \'self\'',
+    'form-action \'self\'',
+    'frame-ancestors \'none\''
   ].join('; ')
   setHeaders(event, {
     'content-security-policy': csp,

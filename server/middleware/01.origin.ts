@@ -17,7 +17,8 @@ export default defineEventHandler((event) => {
   const site = getHeader(event, 'sec-fetch-site')
   if (origin !== undefined) {
     if (!allowedOrigins(event).has(origin)) throw httpError(403, 'Cross-site request refused: this action must come from a Crosspoint page', [{ path: '/', message: `origin ${origin.slice(0, 100)} is not this site` }])
-  } else if (site !== undefined && site !== 'same-origin' && site !== 'none') {
+  }
+  else if (site !== undefined && site !== 'same-origin' && site !== 'none') {
     throw httpError(403, 'Cross-site request refused: this action must come from a Crosspoint page', [{ path: '/', message: `sec-fetch-site ${site.slice(0, 40)}` }])
   }
 })

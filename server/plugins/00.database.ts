@@ -9,7 +9,10 @@ function markDatabaseInUse (): void {
   if (!url.startsWith('file:')) return
   const mark = serverMarkPath(resolveFileUrl(url))
   writeFileSync(mark, `${process.pid}\n`)
-  const clear = () => { try { rmSync(mark, { force: true }) } catch { /* already gone */ } }
+  const clear = () => {
+    try { rmSync(mark, { force: true }) }
+    catch { /* already gone */ }
+  }
   process.once('exit', clear)
 }
 
@@ -22,7 +25,8 @@ export default defineNitroPlugin(async () => {
   try {
     await useDb()
     markDatabaseInUse()
-  } catch (e) {
+  }
+  catch (e) {
     console.error(`\n[crosspoint] start-up failed: ${(e as Error).message}\n`)
     process.exit(1)
   }

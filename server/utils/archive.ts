@@ -129,8 +129,8 @@ export async function getRecord (viewer: Viewer | null, id: number) {
   const [row] = await db.select({ record: records, version: versions, dataset: datasets, labName: labs.name })
     .from(records).innerJoin(versions, eq(records.versionId, versions.id)).innerJoin(datasets, eq(versions.datasetId, datasets.id)).innerJoin(labs, eq(labs.id, datasets.labId))
     .where(eq(records.id, id))
-  if (!row || !canSeeVersion(viewer, row.dataset.labId, row.version.state) || (row.version.state === 'withdrawn') ||
-    (isUnderEmbargo(row.version) && !(viewer && (viewer.role === 'admin' || viewer.labIds.includes(row.dataset.labId))))) {
+  if (!row || !canSeeVersion(viewer, row.dataset.labId, row.version.state) || (row.version.state === 'withdrawn')
+    || (isUnderEmbargo(row.version) && !(viewer && (viewer.role === 'admin' || viewer.labIds.includes(row.dataset.labId))))) {
     throw httpError(404, MESSAGES.notFound)
   }
   return row

@@ -7,14 +7,14 @@ import { hash, verify } from '@node-rs/argon2'
 import { recordFailure, slowAfterFailures } from './rate-limit'
 import { hashToken } from './secret-hash'
 import { consumeOneTimeToken } from './one-time-tokens'
-
-export { hashToken }
 import { getHeader, type H3Event } from 'h3'
 import { getToken } from '#auth'
 import { sessionStands, type SessionClaims } from './sessions'
 import { useDb, schema } from './db'
 import { httpError, MESSAGES } from './errors'
 import type { Role } from '../database/schema'
+
+export { hashToken }
 
 export interface Viewer {
   id: string
@@ -28,7 +28,6 @@ export interface Viewer {
 export function normalizeEmail (email: unknown): string {
   return String(email ?? '').normalize('NFC').trim().toLowerCase()
 }
-
 
 /**
  * Checks a password against the stored argon2id hash; null when either is wrong or the address is
@@ -79,7 +78,8 @@ export async function getViewer (event: H3Event): Promise<Viewer | null> {
     if (!t) throw httpError(401, 'The API token is not valid or has been revoked')
     await db.update(schema.apiTokens).set({ lastUsedAt: new Date() }).where(eq(schema.apiTokens.id, t.id))
     viewer = await loadViewer(t.userId)
-  } else {
+  }
+  else {
     // the token itself (no session round trip), and only while the session stands
     const token = await getToken({ event }).catch(() => null) as SessionClaims | null
     if (token && typeof token.uid === 'string' && await sessionStands(token)) viewer = await loadViewer(token.uid)

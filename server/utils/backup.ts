@@ -46,8 +46,9 @@ export async function backup (opts: { databaseUrl: string, dataDir: string, back
     let records: number; let publishedVersions: number
     try {
       records = Number((await copy.execute('select count(*) n from rate_record')).rows[0]!.n)
-      publishedVersions = Number((await copy.execute("select count(*) n from dataset_version where state = 'published'")).rows[0]!.n)
-    } finally { copy.close() }
+      publishedVersions = Number((await copy.execute('select count(*) n from dataset_version where state = \'published\'')).rows[0]!.n)
+    }
+    finally { copy.close() }
     const uploadsDir = join(resolve(opts.dataDir), 'uploads')
     for (const f of await listFiles(uploadsDir)) {
       const dest = join(folder, 'files', 'uploads', relative(uploadsDir, f))
@@ -62,7 +63,8 @@ export async function backup (opts: { databaseUrl: string, dataDir: string, back
     lines.push(`${await sha256File(join(folder, 'backup.json'))}  backup.json`)
     await writeFile(join(folder, 'SHA256SUMS'), lines.join('\n') + '\n')
     return { folder, files: all.length + 1, bytes, records, publishedVersions }
-  } finally { db.close() }
+  }
+  finally { db.close() }
 }
 
 /** Checks every checksum and the copied database's integrity; throws with the first problem. */
@@ -76,7 +78,8 @@ export async function verifyBackup (folder: string): Promise<void> {
     if (actual !== hash) throw new Error(`Checksum mismatch for ${path} (${actual === 'missing' ? 'file missing' : 'content changed'}); this backup cannot be trusted`)
   }
   const db = createClient({ url: `file:${join(folder, 'crosspoint.db')}` })
-  try { await assertIntact(db, join(folder, 'crosspoint.db')) } finally { db.close() }
+  try { await assertIntact(db, join(folder, 'crosspoint.db')) }
+  finally { db.close() }
 }
 
 // ── servers using a database file ─────────────────────────────────────────────────────────
@@ -92,7 +95,8 @@ export async function liveServers (dbPath: string): Promise<number[]> {
     const pid = Number(name.slice(prefix.length))
     if (!Number.isInteger(pid) || pid <= 0) continue
     let alive = true
-    try { process.kill(pid, 0) } catch (e) { alive = (e as NodeJS.ErrnoException).code === 'EPERM' }
+    try { process.kill(pid, 0) }
+    catch (e) { alive = (e as NodeJS.ErrnoException).code === 'EPERM' }
     if (alive) live.push(pid); else await rm(join(dir, name), { force: true })
   }
   return live
@@ -112,7 +116,9 @@ export async function restore (opts: { folder: string, databaseUrl: string, data
   await mkdir(dirname(target), { recursive: true })
   if (await stat(target).then(() => true, () => false)) {
     const db = createClient({ url: `file:${target}` })
-    try { await db.execute('PRAGMA wal_checkpoint(TRUNCATE)') } catch { /* not a WAL database, or damaged: kept as it is */ } finally { db.close() }
+    try { await db.execute('PRAGMA wal_checkpoint(TRUNCATE)') }
+    catch { /* not a WAL database, or damaged: kept as it is */ }
+    finally { db.close() }
     await rename(target, kept)
   }
   for (const ext of ['-wal', '-shm']) await rename(target + ext, kept + ext).catch(() => {})

@@ -89,7 +89,8 @@ export async function readUploadedFile (event: H3Event, maxBytes: number): Promi
   let bb: Busboy.Busboy
   try {
     bb = Busboy({ headers: req.headers, preservePath: true, limits: { fileSize: maxBytes, files: 1, fields: 8, parts: 10, fieldSize: 4096, headerPairs: 20 } })
-  } catch { throw httpError(400, 'The multipart body is malformed', [{ path: '/file', message: 'bad multipart header' }]) }
+  }
+  catch { throw httpError(400, 'The multipart body is malformed', [{ path: '/file', message: 'bad multipart header' }]) }
   const result = await new Promise<UploadedFile | 'too-large' | 'too-many' | null>((resolve, reject) => {
     let file: UploadedFile | null = null
     let settled = false

@@ -68,7 +68,8 @@ async function withReadSnapshot<T> (fn: (r: Reader) => Promise<T>): Promise<T> {
     const out = await fn({ get: async <R>(q: SQL) => (await run(q))[0] as R | undefined, all: async <R>(q: SQL) => (await run(q)) as unknown as R[] })
     await tx.commit()
     return out
-  } finally {
+  }
+  finally {
     tx.close()
   }
 }
@@ -80,7 +81,7 @@ async function withReadSnapshot<T> (fn: (r: Reader) => Promise<T>): Promise<T> {
  * ids walked in rowid order (NOT INDEXED: SQLite would otherwise rescan the whole version through
  * its index for every page); an empty range skips ahead to the next record of the selection.
  */
-async function * pages (db: Reader, sel: Selection, span: { first: number, last: number }, kind: 'csv' | 'json', signal: AbortSignal): AsyncGenerator<{ bytes: Buffer, n: number }> {
+async function* pages (db: Reader, sel: Selection, span: { first: number, last: number }, kind: 'csv' | 'json', signal: AbortSignal): AsyncGenerator<{ bytes: Buffer, n: number }> {
   const item = kind === 'csv' ? sql`${PREFIX} || rate_record.csv_line` : JSON_LINE
   let lo = span.first
   while (lo <= span.last) {
@@ -123,7 +124,7 @@ interface Entry { path: string, sha256: string, bytes: number }
 function appendHashed (zip: ZipArchive, path: string, chunks: AsyncIterable<string | Buffer> | Iterable<string | Buffer>): Promise<Entry> {
   const hash = createHash('sha256')
   let bytes = 0
-  const stream = Readable.from((async function * () {
+  const stream = Readable.from((async function* () {
     for await (const c of chunks) { const b = typeof c === 'string' ? Buffer.from(c, 'utf8') : c; hash.update(b); bytes += b.length; yield b }
   })())
   return new Promise((resolve, reject) => {
@@ -149,12 +150,12 @@ export async function writeBundle (sel: Selection, out: NodeJS.WritableStream, s
   const contributing = await withReadSnapshot(async (tx) => {
     const found = await tx.get<{ first: number | null, last: number | null }>(sql`select min(rate_record.id) as first, max(rate_record.id) as last from ${FROM} where ${sel.where}`)
     const span = found?.first != null ? { first: found.first, last: found.last! } : { first: 1, last: 0 }
-    const csv = async function * () {
+    const csv = async function* () {
       yield csvLine(header)
       for await (const p of pages(tx, sel, span, 'csv', signal)) { count += p.n; yield p.bytes }
     }
     payload.push(await appendHashed(zip, 'data/records.csv', csv()))
-    const json = async function * () {
+    const json = async function* () {
       yield `{"schema":${JSON.stringify(publicUrl('/schemas/rate-record.v1.json'))},"records":[`
       let first = true
       for await (const p of pages(tx, sel, span, 'json', signal)) { if (!first) yield ','; yield p.bytes; first = false }
@@ -171,7 +172,7 @@ export async function writeBundle (sel: Selection, out: NodeJS.WritableStream, s
   // dataset-level files: citations and licences of every contributing version
   const vrows = versionKeys.size
     ? await db.select({ v: versions, conceptDoi: datasets.conceptDoi, labName: labs.name }).from(versions).innerJoin(datasets, eq(datasets.id, versions.datasetId)).innerJoin(labs, eq(labs.id, datasets.labId))
-      .where(inArray(versions.datasetId, [...datasetIds]))
+        .where(inArray(versions.datasetId, [...datasetIds]))
     : []
   const cited: CitableVersion[] = vrows.filter(r => versionKeys.has(`${r.v.datasetId}:${r.v.versionNumber}`)).map(r => toCitable(r.v, r.conceptDoi, r.labName))
   for (const c of cited) payload.push(await appendHashed(zip, `data/datasets/${c.datasetId}-v${c.versionNumber}.datacite.json`, [JSON.stringify(dataciteJson(c), null, 2)]))
@@ -208,7 +209,7 @@ function readme (cited: CitableVersion[], sel: Selection, count: number, header:
     '## What is here', '', '- `records.csv`: one row per record, canonical units in the header (eV, K, Å, s⁻¹ or M⁻¹ s⁻¹); the value as reported is kept in the *_as_reported columns.',
     '- `records.json`: the same records, in the same order; each `record` is valid against `schemas/rate-record.v1.json` (JSON Schema 2020-12).',
     '- `datasets/*.datacite.json`: citation metadata (DataCite) of every contributing dataset version.', '- `CITATION.cff`: how to cite this bundle.', '',
-    '## Columns', '', '| column | unit |', '|---|---|', ...header.map(h => { const m = h.match(/^(.*?) \((.*)\)$/); return m ? `| ${m[1]} | ${m[2]} |` : `| ${h} | – |` }), '',
+    '## Columns', '', '| column | unit |', '|---|---|', ...header.map((h) => { const m = h.match(/^(.*?) \((.*)\)$/); return m ? `| ${m[1]} | ${m[2]} |` : `| ${h} | – |` }), '',
     '## How to cite', '', 'Cite every dataset you use:', '', ...cited.map(c => `- ${c.metadata.creators.map(a => a.name).join('; ')} (${(c.publishedAt ?? new Date()).getUTCFullYear()}). ${c.title} (Version ${c.versionNumber}). Crosspoint. ${c.doi ? `https://doi.org/${c.doi}` : c.landingUrl} — licence ${c.license}`), '',
     '## Licences', '', licences.length > 1 ? `This selection mixes licences: ${licences.join(', ')}. Each record's licence is in the license column; respect each.` : `All records: ${licences[0] ?? 'n/a'}.`, '',
     '## Checking the bag', '', 'This is a BagIt 1.0 bag (RFC 8493): `manifest-sha256.txt` lists the sha256 of every payload file, `bag-info.txt` gives Payload-Oxum (octets.files) and `tagmanifest-sha256.txt` covers the tag files.', '',

@@ -98,7 +98,7 @@ function bib (s: string): string {
 export function bibtex (v: CitableVersion): string {
   const key = `crosspoint_${v.datasetId}_v${v.versionNumber}`
   const fields: [string, string][] = [
-    ['author', v.metadata.creators.map(c => { const n = splitName(c); return n.given ? `${bib(n.family)}, ${bib(n.given)}` : bib(n.family) }).join(' and ')],
+    ['author', v.metadata.creators.map((c) => { const n = splitName(c); return n.given ? `${bib(n.family)}, ${bib(n.given)}` : bib(n.family) }).join(' and ')],
     ['title', `{${bib(v.title)}}`],
     ['year', String(year(v))],
     ['publisher', PUBLISHER],
@@ -110,7 +110,7 @@ export function bibtex (v: CitableVersion): string {
 }
 
 export function ris (v: CitableVersion): string {
-  const lines = ['TY  - DATA', ...v.metadata.creators.map(c => { const n = splitName(c); return `AU  - ${n.given ? `${n.family}, ${n.given}` : n.family}` }),
+  const lines = ['TY  - DATA', ...v.metadata.creators.map((c) => { const n = splitName(c); return `AU  - ${n.given ? `${n.family}, ${n.given}` : n.family}` }),
     `TI  - ${v.title}`, `PY  - ${year(v)}`, `PB  - ${PUBLISHER}`, `ET  - ${v.versionNumber}`,
     ...(v.doi ? [`DO  - ${v.doi}`, `UR  - ${doiUrl(v.doi)}`] : [`UR  - ${v.landingUrl}`]),
     ...(v.metadata.keywords ?? []).map(k => `KW  - ${k}`), `N1  - Licence: ${v.license}`]
@@ -125,18 +125,18 @@ export function cff (v: CitableVersion): string {
 export function cffDoc (v: CitableVersion): Record<string, unknown> {
   const doc: Record<string, unknown> = {
     'cff-version': '1.2.0',
-    message: 'If you use these data, please cite them as below.',
-    type: 'dataset',
-    title: v.title,
-    authors: v.metadata.creators.map((c) => {
+    'message': 'If you use these data, please cite them as below.',
+    'type': 'dataset',
+    'title': v.title,
+    'authors': v.metadata.creators.map((c) => {
       const n = splitName(c)
       return { 'family-names': n.family, ...(n.given ? { 'given-names': n.given } : {}), ...(c.orcid ? { orcid: `https://orcid.org/${c.orcid}` } : {}), ...(c.affiliation ? { affiliation: c.affiliation } : {}) }
     }),
-    version: String(v.versionNumber),
+    'version': String(v.versionNumber),
     ...(v.doi ? { doi: v.doi } : {}),
     ...(v.publishedAt ? { 'date-released': v.publishedAt.toISOString().slice(0, 10) } : {}),
-    license: v.license,
-    url: v.landingUrl,
+    'license': v.license,
+    'url': v.landingUrl,
     ...(v.metadata.keywords?.length ? { keywords: v.metadata.keywords } : {}),
     ...(v.description ? { abstract: v.description } : {}),
     ...(v.conceptDoi ? { identifiers: [{ type: 'doi', value: v.conceptDoi, description: 'All versions of this dataset' }] } : {})
@@ -154,14 +154,14 @@ export function selectionCff (cited: CitableVersion[], title: string, url: strin
   const authors = [...new Map(refs.flatMap(r => r.authors as Record<string, string>[]).map(a => [JSON.stringify(a), a])).values()]
   return toYaml({
     'cff-version': '1.2.0',
-    message: 'This is a selection of published records. Cite each dataset listed under references.',
-    type: 'dataset',
+    'message': 'This is a selection of published records. Cite each dataset listed under references.',
+    'type': 'dataset',
     title,
-    authors: authors.length ? authors : [{ name: PUBLISHER }],
+    'authors': authors.length ? authors : [{ name: PUBLISHER }],
     'date-released': new Date().toISOString().slice(0, 10),
     url,
     ...(licences.length ? { license: licences.length === 1 ? licences[0] : licences } : {}),
-    references: refs
+    'references': refs
   })
 }
 
@@ -170,17 +170,17 @@ export function jsonLd (v: CitableVersion) {
   return {
     '@context': 'https://schema.org',
     '@type': 'Dataset',
-    name: v.title,
-    description: v.description || v.title,
-    url: v.landingUrl,
+    'name': v.title,
+    'description': v.description || v.title,
+    'url': v.landingUrl,
     ...(v.doi ? { identifier: doiUrl(v.doi), sameAs: doiUrl(v.doi) } : {}),
-    version: String(v.versionNumber),
-    license: `https://spdx.org/licenses/${v.license}.html`,
-    datePublished: v.publishedAt?.toISOString().slice(0, 10),
-    keywords: v.metadata.keywords,
-    creator: v.metadata.creators.map(c => ({ '@type': 'Person', name: c.name, ...(c.orcid ? { '@id': `https://orcid.org/${c.orcid}` } : {}), ...(c.affiliation ? { affiliation: { '@type': 'Organization', name: c.affiliation } } : {}) })),
-    publisher: { '@type': 'Organization', name: PUBLISHER },
-    isAccessibleForFree: true
+    'version': String(v.versionNumber),
+    'license': `https://spdx.org/licenses/${v.license}.html`,
+    'datePublished': v.publishedAt?.toISOString().slice(0, 10),
+    'keywords': v.metadata.keywords,
+    'creator': v.metadata.creators.map(c => ({ '@type': 'Person', 'name': c.name, ...(c.orcid ? { '@id': `https://orcid.org/${c.orcid}` } : {}), ...(c.affiliation ? { affiliation: { '@type': 'Organization', 'name': c.affiliation } } : {}) })),
+    'publisher': { '@type': 'Organization', 'name': PUBLISHER },
+    'isAccessibleForFree': true
   }
 }
 

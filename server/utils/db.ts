@@ -41,9 +41,10 @@ function prepareFileDatabase (url: string): string {
     mkdirSync(folder, { recursive: true })
     accessSync(folder, constants.W_OK)
     if (existsSync(path)) accessSync(path, constants.W_OK | constants.R_OK)
-  } catch (e) {
+  }
+  catch (e) {
     const code = (e as NodeJS.ErrnoException).code ?? 'error'
-    throw new Error(`Crosspoint cannot use the database file ${path} (${code}): make its folder exist and be writable, or set NUXT_DATABASE_URL`)
+    throw new Error(`Crosspoint cannot use the database file ${path} (${code}): make its folder exist and be writable, or set NUXT_DATABASE_URL`, { cause: e })
   }
   return `file:${path}`
 }
@@ -54,7 +55,8 @@ export async function assertIntact (client: Client, url: string): Promise<void> 
   try {
     const rows = (await client.execute('PRAGMA integrity_check')).rows
     verdict = rows.map(r => String(Object.values(r)[0])).join('; ')
-  } catch (e) { verdict = (e as Error).message }
+  }
+  catch (e) { verdict = (e as Error).message }
   if (verdict !== 'ok') {
     client.close()
     throw new Error(`The database ${url} is damaged (integrity check: ${verdict.slice(0, 300)}). Crosspoint will not serve it; restore the newest backup with npm run restore`)
@@ -81,7 +83,8 @@ function databaseConfig (): { url: string, authToken: string } {
   try {
     const rc = useRuntimeConfig()
     return { url: rc.databaseUrl, authToken: rc.databaseAuthToken }
-  } catch {
+  }
+  catch {
     return { url: process.env.NUXT_DATABASE_URL ?? 'file:./data/crosspoint.db', authToken: process.env.NUXT_DATABASE_AUTH_TOKEN ?? '' }
   }
 }

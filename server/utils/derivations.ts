@@ -11,8 +11,7 @@ import { audit } from './audit'
 import { schema, type Db, type Tx } from './db'
 import { currentPublishedVersionIds } from './archive'
 
-const { rateRecords: records, datasetVersions: versions, datasets, labs, auditEvents, dataMigrations } = schema
-
+const { rateRecords: records, datasetVersions: versions, datasets, labs, dataMigrations } = schema
 
 /** Re-derives the records of the given versions in one transaction; returns how many changed. */
 async function rederiveVersions (tx: Tx | Db, versionIds: number[]): Promise<{ changed: number, ids: number[] }> {

@@ -6,7 +6,8 @@ import { useDb, schema } from './db'
 
 export function dataDirectory (): string {
   let d = './data'
-  try { d = useRuntimeConfig().dataDir } catch { d = process.env.NUXT_DATA_DIR ?? d }
+  try { d = useRuntimeConfig().dataDir }
+  catch { d = process.env.NUXT_DATA_DIR ?? d }
   return resolve(process.cwd(), d)
 }
 

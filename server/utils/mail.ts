@@ -15,7 +15,8 @@ let sinkReceived = 0
 export function sinkCount (): number { return sinkReceived }
 
 function smtpUrl (): string {
-  try { return useRuntimeConfig().smtpUrl } catch { return process.env.NUXT_SMTP_URL ?? '' }
+  try { return useRuntimeConfig().smtpUrl }
+  catch { return process.env.NUXT_SMTP_URL ?? '' }
 }
 
 async function startSink (): Promise<number> {
@@ -58,7 +59,8 @@ export async function sendMail (to: string, subject: string, text: string): Prom
     const t = await useTransport()
     await t.sendMail({ from: MAIL_FROM, to, subject, text })
     await db.update(schema.mailOutbox).set({ status: 'sent', sentAt: new Date() }).where(eq(schema.mailOutbox.id, row!.id))
-  } catch (e) {
+  }
+  catch (e) {
     await db.update(schema.mailOutbox).set({ status: 'failed', error: (e as Error).message }).where(eq(schema.mailOutbox.id, row!.id))
   }
   return row!.id
@@ -66,6 +68,7 @@ export async function sendMail (to: string, subject: string, text: string): Prom
 
 export function publicUrl (path: string): string {
   let base = 'http://localhost:3000'
-  try { base = useRuntimeConfig().public.baseUrl } catch { /* outside Nitro */ }
+  try { base = useRuntimeConfig().public.baseUrl }
+  catch { /* outside Nitro */ }
   return base.replace(/\/$/, '') + path
 }

@@ -54,7 +54,8 @@ function checkCombination (b: CurveBody): void {
     if (b.lambdaTotal === undefined && b.lambdaSolvent !== undefined && b.lambdaInternal !== undefined && b.lambdaSolvent + b.lambdaInternal > 5) {
       c.add('/lambdaSolvent', 'λ_s + λ_i must be at most 5 eV')
     }
-  } else if (b.lambdaTotal !== undefined) {
+  }
+  else if (b.lambdaTotal !== undefined) {
     c.add('/lambdaTotal', 'The semi-classical model takes lambdaSolvent and lambdaInternal, not lambdaTotal')
   }
   if (b.includeTerms && b.drivingForces.length > MAX_TERM_CURVE_POINTS) c.add('/drivingForces', `With includeTerms, at most ${MAX_TERM_CURVE_POINTS} driving forces`)
@@ -101,7 +102,8 @@ export function computeCurve (b: CurveBody) {
       ...(notes.length ? { notes } : {}),
       ...(b.includeTerms ? { terms: semiclassicalTerms(b.drivingForces, p).map(t => ({ j: t.j, weight: t.weight, log10Rate: Array.from(t.log10Rate) })) } : {})
     }
-  } catch (e) { rethrowPhysics(e) }
+  }
+  catch (e) { rethrowPhysics(e) }
 }
 
 const paramSet = {
@@ -146,5 +148,6 @@ export const fitBodySchema = {
 export function computeFit (b: FitRequest) {
   try {
     return fitRates(b)
-  } catch (e) { rethrowPhysics(e) }
+  }
+  catch (e) { rethrowPhysics(e) }
 }

@@ -29,7 +29,8 @@ async function startFake (): Promise<string> {
       }
       if (req.method === 'POST' && path === '/dois') {
         let parsed: { data?: { attributes?: Record<string, unknown> } }
-        try { parsed = JSON.parse(body) } catch { return send(400, { errors: [{ status: '400', title: 'Body is not JSON' }] }) }
+        try { parsed = JSON.parse(body) }
+        catch { return send(400, { errors: [{ status: '400', title: 'Body is not JSON' }] }) }
         const a = parsed.data?.attributes ?? {}
         const doi = String(a.doi ?? '').toLowerCase()
         if (!/^10\.\d{4,9}\/\S+$/.test(doi) || !a.url) return send(422, { errors: [{ status: '422', title: 'doi and url are required' }] })
@@ -43,7 +44,8 @@ async function startFake (): Promise<string> {
         const d = fake.dois.get(path.slice(6).toLowerCase())
         if (!d) return send(404, { errors: [{ status: '404', title: 'DOI not found' }] })
         let a: Record<string, unknown>
-        try { a = JSON.parse(body).data?.attributes ?? {} } catch { return send(400, { errors: [{ status: '400', title: 'Body is not JSON' }] }) }
+        try { a = JSON.parse(body).data?.attributes ?? {} }
+        catch { return send(400, { errors: [{ status: '400', title: 'Body is not JSON' }] }) }
         if (a.event === 'publish' && fake.failPublishNext > 0) { fake.failPublishNext--; return send(503, { errors: [{ status: '503', title: 'Registrar unavailable (simulated)' }] }) }
         const { event, ...rest } = a
         Object.assign(d.attributes, rest)
@@ -69,10 +71,12 @@ export function failLocalRegistrar (n: number, only?: 'publish'): void { if (onl
 
 // ── the client ───────────────────────────────────────────────────────────────────────────
 function registrarUrl (): string {
-  try { return useRuntimeConfig().registrarUrl } catch { return process.env.NUXT_REGISTRAR_URL ?? '' }
+  try { return useRuntimeConfig().registrarUrl }
+  catch { return process.env.NUXT_REGISTRAR_URL ?? '' }
 }
 export function registrarPrefix (): string {
-  try { return useRuntimeConfig().registrarPrefix } catch { return process.env.NUXT_REGISTRAR_PREFIX ?? '10.99999' }
+  try { return useRuntimeConfig().registrarPrefix }
+  catch { return process.env.NUXT_REGISTRAR_PREFIX ?? '10.99999' }
 }
 
 export class RegistrarError extends Error {}
@@ -83,7 +87,8 @@ async function request (method: string, path: string, idempotencyKey: string, bo
   const b = await base()
   try {
     return await fetch(b + path, { method, headers: { 'content-type': 'application/vnd.api+json', 'idempotency-key': idempotencyKey }, body: body ? JSON.stringify(body) : undefined, signal: AbortSignal.timeout(10_000) })
-  } catch (e) { throw new RegistrarError(`The identifier registrar cannot be reached (${(e as Error).message})`) }
+  }
+  catch (e) { throw new RegistrarError(`The identifier registrar cannot be reached (${(e as Error).message})`) }
 }
 
 /**

@@ -174,7 +174,8 @@ export async function acceptVersion (viewer: Viewer, datasetId: number, b: { com
   try {
     await ensureDraftDoi(ids.concept, publicUrl(`/datasets/${datasetId}`), { ...dataciteJson({ ...cv, doi: ids.concept, conceptDoi: null }).data.attributes, doi: ids.concept })
     await ensureDraftDoi(ids.version, cv.landingUrl, dataciteJson(cv).data.attributes)
-  } catch (e) {
+  }
+  catch (e) {
     if (e instanceof RegistrarError) throw httpError(503, `${e.message}. Nothing was published; try again (the same identifiers will be used).`)
     throw e
   }
@@ -200,7 +201,8 @@ async function makeVersionFindable (versionId: number, ids: { concept: string, v
   try {
     await makeFindable(ids.concept)
     await makeFindable(ids.version)
-  } catch (e) {
+  }
+  catch (e) {
     if (!(e instanceof RegistrarError)) throw e
     console.error(`[crosspoint] identifiers of version ${versionId} stay reserved until the registrar answers: ${e.message}`)
     return false

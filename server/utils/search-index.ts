@@ -135,6 +135,7 @@ export class RecordIndex {
     }
     return v
   }
+
   private pendingText: ({ id: number } & Partial<Record<TextField, string>>)[] = []
 
   /** Adds records (or replaces them when the id is already there). */
@@ -214,6 +215,7 @@ export class RecordIndex {
       if (v !== undefined) this.fingerprints.set(v, bits)
     }
   }
+
   /** SMILES in the index that have no fingerprint yet. */
   smilesWithoutFingerprint (): string[] {
     const out = new Set<string>()
@@ -251,7 +253,8 @@ export class RecordIndex {
     // twice as slow (the call site sees many closures and V8 stops inlining).
     const vis = this.visCol; const lab = this.labCol
     let j = 0
-    if (labs.size) { for (let i = 0; i < len; i++) { const s = sel[i]!; if (vis[s] === 1 || (vis[s] === 2 && labs.has(lab[s]!))) sel[j++] = s } } else { for (let i = 0; i < len; i++) { const s = sel[i]!; if (vis[s] === 1) sel[j++] = s } }
+    if (labs.size) { for (let i = 0; i < len; i++) { const s = sel[i]!; if (vis[s] === 1 || (vis[s] === 2 && labs.has(lab[s]!))) sel[j++] = s } }
+    else { for (let i = 0; i < len; i++) { const s = sel[i]!; if (vis[s] === 1) sel[j++] = s } }
     len = j
     if (query.labId) { const want = query.labId; j = 0; for (let i = 0; i < len; i++) { const s = sel[i]!; if (lab[s] === want) sel[j++] = s } len = j }
     for (const f of ['process', 'solvent', 'technique', 'linkage'] as const) {
@@ -285,14 +288,17 @@ export class RecordIndex {
     if (scored) {
       sel = this.textHits(query.q!)
       len = sel.length
-    } else if (query.ids) {
+    }
+    else if (query.ids) {
       sel = new Int32Array(query.ids.length)
       for (const id of new Set(query.ids)) { const s = this.slotOf.get(id); if (s !== undefined) sel[len++] = s }
-    } else {
+    }
+    else {
       // the visibility test is done here already for the common case (a visitor)
       sel = new Int32Array(this.n)
       const vis = this.visCol
-      if (labs.size) { for (let s = 0; s < this.n; s++) if (vis[s]) sel[len++] = s } else { for (let s = 0; s < this.n; s++) if (vis[s] === 1) sel[len++] = s }
+      if (labs.size) { for (let s = 0; s < this.n; s++) if (vis[s]) sel[len++] = s }
+      else { for (let s = 0; s < this.n; s++) if (vis[s] === 1) sel[len++] = s }
     }
     len = this.narrow(sel, len, query, labs)
     const hits = sel.subarray(0, len)
@@ -320,7 +326,8 @@ export class RecordIndex {
       const list = this.postings[r.id as number]!; const sc = r.score
       for (let i = 0; i < list.length; i++) {
         const s = list[i]!
-        if (mask[s] === 0) { touched[nt++] = s; score[s] = sc } else score[s]! += sc
+        if (mask[s] === 0) { touched[nt++] = s; score[s] = sc }
+        else score[s]! += sc
         mask[s]! |= bits
       }
     }
@@ -339,17 +346,20 @@ export class RecordIndex {
     if (key === 'donor' || key === 'acceptor') {
       const col = this.textCol[FIELD_NO[key]]!; const text = this.valueText
       cmp = (a, b) => { const x = text[col[a]!] ?? ''; const y = text[col[b]!] ?? ''; return (x < y ? -1 : x > y ? 1 : 0) * dir || ids[a]! - ids[b]! }
-    } else if (key && ['deltaG', 'log10Rate', 'temperature', 'distance'].includes(key)) {
+    }
+    else if (key && ['deltaG', 'log10Rate', 'temperature', 'distance'].includes(key)) {
       const col = this.num[key === 'temperature' ? 'temperatureK' : key as NumberColumn]
       cmp = (a, b) => {
         const x = col[a]!; const y = col[b]!
         if (Number.isNaN(x) || Number.isNaN(y)) return Number.isNaN(x) ? (Number.isNaN(y) ? ids[a]! - ids[b]! : 1) : -1 // no value: last
         return (x - y) * dir || ids[a]! - ids[b]!
       }
-    } else if (scored) {
+    }
+    else if (scored) {
       const sc = this.score
       cmp = (a, b) => sc[b]! - sc[a]! || ids[a]! - ids[b]!
-    } else {
+    }
+    else {
       cmp = (a, b) => ids[a]! - ids[b]!
     }
     const start = (query.page - 1) * query.pageSize
@@ -418,13 +428,14 @@ export class RecordIndex {
       const p = pekar[s]!; if (!Number.isNaN(p) && !Number.isNaN(mine.pekar)) { sum += w.polarity * g(mine.pekar - p, 0.08); total += w.polarity }
       const r = distance[s]!; if (!Number.isNaN(r) && !Number.isNaN(mine.distance)) { sum += w.distance * g(mine.distance - r, 3); total += w.distance }
       const st = this.structureCloseness(mine, dfp[s]!, afp[s]!, fpCache)
-      if (st) { sum += w.structure * st.closeness; total += w.structure } else { sum += w.names * this.nameCloseness(mine, don[s]!, acc[s]!, cls[s]!, nameCache); total += w.names }
+      if (st) { sum += w.structure * st.closeness; total += w.structure }
+      else { sum += w.names * this.nameCloseness(mine, don[s]!, acc[s]!, cls[s]!, nameCache); total += w.names }
       scores[s] = sum / total
     }
     const cand: number[] = []
     for (let s = 0; s < this.n; s++) if (scores[s]! >= 0) cand.push(s)
     const ids = this.idCol
-    return topK(cand, limit, (a, b) => scores[b]! - scores[a]! || ids[a]! - ids[b]!).map(s => {
+    return topK(cand, limit, (a, b) => scores[b]! - scores[a]! || ids[a]! - ids[b]!).map((s) => {
       const r = this.compare(mine, this.features(s), nameCache, fpCache)
       return { id: ids[s]!, score: r.score, why: r.why }
     })
@@ -484,7 +495,8 @@ export class RecordIndex {
     const st = this.structureCloseness(a, b.donorFp, b.acceptorFp, fpCache)
     if (st) {
       parts.push({ feature: 'structure', closeness: st.closeness, weight: w.structure, detail: () => `structure (Tanimoto, Morgan radius 2): ${st.species.map(x => `${x.label} ${x.t.toFixed(2)}`).join(', ')}` })
-    } else {
+    }
+    else {
       parts.push({ feature: 'names', closeness: this.nameCloseness(a, b.donor, b.acceptor, b.classes, nameCache), weight: w.names, detail: () => `${text(b.donor)} → ${text(b.acceptor)} (name resemblance; no structures on both sides)` })
     }
     let total = 0; let sum = 0
@@ -552,7 +564,8 @@ export function topK (xs: ArrayLike<number> & Iterable<number>, k: number, cmp: 
     }
   }
   for (const x of xs) {
-    if (heap.length < k) { heap.push(x); up(heap.length - 1) } else if (cmp(x, heap[0]!) < 0) { heap[0] = x; down(0) }
+    if (heap.length < k) { heap.push(x); up(heap.length - 1) }
+    else if (cmp(x, heap[0]!) < 0) { heap[0] = x; down(0) }
   }
   return heap.sort(cmp)
 }

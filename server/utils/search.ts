@@ -11,7 +11,6 @@ import { RecordIndex, type SearchAnswer, type SearchDoc, type SearchQuery } from
 import { fingerprintsFor } from './structures'
 import type { RateRecordV1 } from '../../shared/records/types'
 
-
 interface State { index: RecordIndex, lastSync: number }
 let state: Promise<State> | undefined
 
@@ -37,7 +36,7 @@ const LOAD_PAGE = 10_000
  * published one. Read in pages of record ids, with the few JSON fields search needs extracted by
  * SQLite (json_extract), so that start-up never holds 100 000 parsed records at once.
  */
-async function * loadDocs (datasetIds?: number[]): AsyncGenerator<SearchDoc[]> {
+async function* loadDocs (datasetIds?: number[]): AsyncGenerator<SearchDoc[]> {
   const db = await useDb()
   const v = schema.datasetVersions
   const r = schema.rateRecords

@@ -54,7 +54,8 @@ export function computeStructure (rd: RDKit, smiles: string): Structure {
       morganFp: bitsToHex(bits),
       error: null
     }
-  } finally {
+  }
+  finally {
     mol.delete()
   }
 }

@@ -73,7 +73,8 @@ export function ajvIssues (errors: ErrorObject[] | null | undefined, prefix = ''
 /** Reads and validates a JSON body; 422 with every problem, or the typed body. */
 export async function readValidated<T> (event: H3Event, schema: object): Promise<T> {
   let body: unknown
-  try { body = await readBody(event) } catch { throw httpError(400, 'The request body is not valid JSON') }
+  try { body = await readBody(event) }
+  catch { throw httpError(400, 'The request body is not valid JSON') }
   const validate = compile<T>(schema)
   if (!validate(body)) throw httpError(422, MESSAGES.invalidBody, ajvIssues(validate.errors))
   return body as T
@@ -99,7 +100,8 @@ export function coerceNumbers (keys: string[]) {
       if (keys.includes(k)) {
         const n = typeof val === 'string' ? parseDecimal(val) : undefined
         out[k] = n !== undefined && Number.isFinite(n) ? n : val
-      } else out[k] = val
+      }
+      else out[k] = val
     }
     return out
   }

@@ -6,7 +6,7 @@
  * electron-transfer system a lab measures, narrow enough that no input can make the vibronic sum
  * or the fitter run away. Outside them a request gets a 422 naming the field.
  */
-import { IssueCollector } from './errors'
+import type { IssueCollector } from './errors'
 
 export interface Bound {
   min: number

@@ -30,18 +30,21 @@ export class IssueCollector {
     }
     return true
   }
+
   /** A finite number > 0, or an issue. */
   positive (value: unknown, path: string, label: string): value is number {
     if (!this.finite(value, path, label)) return false
     if ((value as number) <= 0) { this.add(path, `${label} must be greater than 0`); return false }
     return true
   }
+
   /** A finite number ≥ 0, or an issue. */
   nonNegative (value: unknown, path: string, label: string): value is number {
     if (!this.finite(value, path, label)) return false
     if ((value as number) < 0) { this.add(path, `${label} must not be negative`); return false }
     return true
   }
+
   throwIfAny (): void {
     if (this.issues.length) throw new PhysicsInputError(this.issues)
   }

@@ -18,7 +18,7 @@
  * Energies in eV; the coupling is fitted as log10 V.
  */
 import { solve, Matrix } from 'ml-matrix'
-import { IssueCollector, PhysicsInputError } from './errors'
+import { IssueCollector } from './errors'
 import { checkBound, checkHuangRhys, MAX_HUANG_RHYS, MODEL_BOUNDS } from './bounds'
 import { createClassicalEvaluator, createSemiclassicalEvaluator } from './rates'
 
@@ -138,8 +138,8 @@ function prepare (req: FitRequest): { prob: Problem, Tmin: number, Tmax: number 
       else checkBound(c, v, k as ParameterName, `/${key}/${k}`)
     }
   }
-  if (req.model === 'semiclassical' && fixed.lambdaInternal !== undefined && fixed.vibrationEnergy !== undefined &&
-    !c.issues.length) checkHuangRhys(c, fixed.lambdaInternal, fixed.vibrationEnergy, '/fixed/lambdaInternal')
+  if (req.model === 'semiclassical' && fixed.lambdaInternal !== undefined && fixed.vibrationEnergy !== undefined
+    && !c.issues.length) checkHuangRhys(c, fixed.lambdaInternal, fixed.vibrationEnergy, '/fixed/lambdaInternal')
   const n = req.points.length
   if (n > MAX_FIT_POINTS) c.add('/points', `Too many points: ${n} (at most ${MAX_FIT_POINTS})`)
   c.throwIfAny()
@@ -162,7 +162,8 @@ function prepare (req: FitRequest): { prob: Problem, Tmin: number, Tmax: number 
         if (p.log10RateUncertainty > 10) c.add(`${at}/log10RateUncertainty`, 'Uncertainty of log10 rate must be at most 10 (ten decades)')
         else { s[i] = p.log10RateUncertainty; withSigma++ }
       }
-    } else if (p.rate !== undefined) {
+    }
+    else if (p.rate !== undefined) {
       if (c.positive(p.rate, `${at}/rate`, 'Rate')) {
         const l = Math.log10(p.rate)
         if (l < LOG10_RATE_RANGE[0] || l > LOG10_RATE_RANGE[1]) c.add(`${at}/rate`, `Rate must be between 1e${LOG10_RATE_RANGE[0]} and 1e${LOG10_RATE_RANGE[1]}`)
@@ -173,7 +174,8 @@ function prepare (req: FitRequest): { prob: Problem, Tmin: number, Tmax: number 
         s[i] = p.rateUncertainty / (p.rate * Math.LN10); withSigma++
         if (!(s[i]! <= 10)) { c.add(`${at}/rateUncertainty`, 'Rate uncertainty is more than ten decades in log10'); withSigma-- }
       }
-    } else {
+    }
+    else {
       c.add(at, 'Each point needs log10Rate or rate')
     }
   })
@@ -225,7 +227,8 @@ function model (prob: Problem, vec: ArrayLike<number>, f: Float64Array): void {
     if (prob.model === 'classical') {
       const ev = createClassicalEvaluator({ lambdaTotal: p.lambdaTotal, coupling: p.coupling, temperatureK: g.T })
       for (let j = 0; j < g.x.length; j++) f[g.idx[j]!] = ev.log10Rate(g.x[j]!)
-    } else {
+    }
+    else {
       const ev = createSemiclassicalEvaluator({ lambdaSolvent: p.lambdaSolvent, lambdaInternal: p.lambdaInternal, vibrationEnergy: p.vibrationEnergy, coupling: p.coupling, temperatureK: g.T })
       ev.run(g.x, g.out)
       for (let j = 0; j < g.x.length; j++) f[g.idx[j]!] = g.out[j]!
@@ -273,7 +276,8 @@ function jacobian (prob: Problem, vec: number[], f0: Float64Array, central: bool
       const b = vec.slice(); b[j] = vec[j]! - h; model(prob, b, tmp2)
       for (let i = 0; i < prob.n; i++) Jj[i] = prob.w[i]! * (tmp[i]! - tmp2[i]!) / (2 * h)
       evals += 2
-    } else {
+    }
+    else {
       const s = up ? h : -h
       const a = vec.slice(); a[j] = vec[j]! + s; model(prob, a, tmp)
       for (let i = 0; i < prob.n; i++) Jj[i] = prob.w[i]! * (tmp[i]! - f0[i]!) / s
@@ -329,7 +333,8 @@ function lmRun (prob: Problem, start: number[]): Run {
         rhs.set(a, 0, b[ja]!)
       })
       let delta: Matrix
-      try { delta = solve(M, rhs) } catch { mu *= 10; continue }
+      try { delta = solve(M, rhs) }
+      catch { mu *= 10; continue }
       const trial = vec.slice()
       freeIdx.forEach((j, a) => { trial[j] = Math.min(Math.max(vec[j]! + delta.get(a, 0), prob.lo[j]!), prob.hi[j]!) })
       model(prob, trial, ft)
@@ -451,7 +456,7 @@ export function fitRates (req: FitRequest): FitResult {
   if (req.model === 'semiclassical' && req.initial && (req.initial.lambdaInternal !== undefined || req.initial.vibrationEnergy !== undefined)) {
     const c = new IssueCollector(); checkHuangRhys(c, start.lambdaInternal, start.vibrationEnergy, '/initial/lambdaInternal'); c.throwIfAny()
   }
-  let first = prob.free.map((name, j) => {
+  const first = prob.free.map((name, j) => {
     const v = name === 'coupling' ? Math.log10(start.coupling) : start[name]
     return Math.min(Math.max(v, prob.lo[j]!), prob.hi[j]!)
   })
@@ -466,7 +471,8 @@ export function fitRates (req: FitRequest): FitResult {
   let best: Run
   if (sub === prob) {
     best = runs.reduce((a, b) => b.chi < a.chi ? b : a)
-  } else {
+  }
+  else {
     const order = runs.slice().sort((a, b) => a.chi - b.chi)
     const finals = order.slice(0, 2).map(r => lmRun(prob, r.vec))
     iterations += finals.reduce((s, r) => s + r.iterations, 0)
@@ -480,7 +486,6 @@ export function fitRates (req: FitRequest): FitResult {
   // Prefer a converged run when a stalled one is better only by rounding.
   const conv = runs.filter(r => r.status === 'converged' && r.chi <= best.chi * (1 + 1e-9))
   if (best.status === 'stalled' && conv.length && sub === prob) best = conv[0]!
-  first = best.vec
   const vec = best.vec; const chi = best.chi
   // a parameter held at a bound sits on it (within rounding): report the bound itself
   vec.forEach((v, j) => { if (best.active[j]) vec[j] = Math.abs(v - prob.lo[j]!) <= Math.abs(v - prob.hi[j]!) ? prob.lo[j]! : prob.hi[j]! })
@@ -512,11 +517,13 @@ export function fitRates (req: FitRequest): FitResult {
     if (edge) {
       const bv = bounds[name]![edge === 'lower' ? 0 : 1]
       warnings.push(`${cap(label)} ended at the ${edge} bound of its allowed range (${bv} eV): the best fit wants it ${edge === 'lower' ? 'lower' : 'higher'}; its standard error is not given and the others' come from the fit with it held there.`)
-    } else if (noEffect[fi]) {
+    }
+    else if (noEffect[fi]) {
       warnings.push(name === 'vibrationEnergy' && p.lambdaInternal === 0
         ? 'The mode energy ħω has no effect while λ_i = 0 (the classical limit): it is not determined; fix it.'
         : `The data do not depend on ${label} here: it is not determined; fix it.`)
-    } else if (se === null && dof > 0) warnings.push(`The data cannot constrain ${label}: fix it or add points that span more driving force.`)
+    }
+    else if (se === null && dof > 0) warnings.push(`The data cannot constrain ${label}: fix it or add points that span more driving force.`)
     // common practice: call a parameter poorly determined past 50 % relative error (a factor of 2 for V)
     else if (se !== null && name !== 'coupling' && se > 0.5 * Math.abs(value)) warnings.push(`${cap(label)} is poorly determined: its standard error is more than half its value.`)
     else if (se !== null && name === 'coupling' && se > Math.log10(2)) warnings.push('The coupling is poorly determined: its standard error spans more than a factor of two.')
@@ -568,6 +575,7 @@ function covariance (prob: Problem, vec: number[], active: boolean[]): { cov: nu
       // a correlation matrix whose inverse has a diagonal above 1e10 is singular to working precision
       out[j] = v > 0 && v < 1e10 ? v / (d[i]! * d[i]!) : NaN
     })
-  } catch { /* singular: every entry stays NaN */ }
+  }
+  catch { /* singular: every entry stays NaN */ }
   return { cov: out, noEffect }
 }

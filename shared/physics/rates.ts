@@ -111,6 +111,7 @@ class VibronicTables {
     }
     this.lnWeight = lw; this.lnJ1 = l1; this.upStep = us
   }
+
   ensure (j: number): void {
     if (j + 2 >= this.lnWeight.length) this.grow(Math.max(2 * this.lnWeight.length, j + 64))
   }

@@ -44,8 +44,8 @@ export interface RehmWellerResult {
   formula: string
 }
 
-export const REHM_WELLER_FORMULA =
-  'ΔG° = e[E_ox(D⁺/D) − E_red(A/A⁻)] − E₀₀ − e²/(4πε₀ε_sR) + (e²/8πε₀)(1/r_D + 1/r_A)(1/ε_s − 1/ε_ref)'
+export const REHM_WELLER_FORMULA
+  = 'ΔG° = e[E_ox(D⁺/D) − E_red(A/A⁻)] − E₀₀ − e²/(4πε₀ε_sR) + (e²/8πε₀)(1/r_D + 1/r_A)(1/ε_s − 1/ε_ref)'
 
 /** Rehm–Weller driving force for photoinduced charge separation. Throws on any bad input, all issues at once. */
 export function rehmWeller (inp: RehmWellerInput): RehmWellerResult {
@@ -97,10 +97,10 @@ function normalizeReference (r: string): string {
 /** Processes as the record format names them. */
 export type DerivationProcess = 'charge-separation' | 'charge-recombination' | 'charge-shift' | 'hole-transfer' | 'other'
 
-export const CHARGE_RECOMBINATION_FORMULA =
-  'ΔG°_CR = −(ΔG°_CS + E₀₀) = −(e[E_ox(D⁺/D) − E_red(A/A⁻)] − e²/(4πε₀ε_sR) + (e²/8πε₀)(1/r_D + 1/r_A)(1/ε_s − 1/ε_ref)); E₀₀ cancels'
-export const CHARGE_SHIFT_FORMULA =
-  'ΔG° = e[E_ox − E_red] − E₀₀ (no ion pair is formed or destroyed: no Coulomb or Born term; E₀₀ = 0 for a thermal step)'
+export const CHARGE_RECOMBINATION_FORMULA
+  = 'ΔG°_CR = −(ΔG°_CS + E₀₀) = −(e[E_ox(D⁺/D) − E_red(A/A⁻)] − e²/(4πε₀ε_sR) + (e²/8πε₀)(1/r_D + 1/r_A)(1/ε_s − 1/ε_ref)); E₀₀ cancels'
+export const CHARGE_SHIFT_FORMULA
+  = 'ΔG° = e[E_ox − E_red] − E₀₀ (no ion pair is formed or destroyed: no Coulomb or Born term; E₀₀ = 0 for a thermal step)'
 
 export interface ProcessDerivation extends RehmWellerResult {
   process: DerivationProcess

@@ -11,8 +11,8 @@ export type EnergyUnit = typeof ENERGY_UNITS[number]
 
 /** How many of each unit make one eV. */
 const PER_EV: Record<EnergyUnit, number> = {
-  eV: 1,
-  meV: 1000,
+  'eV': 1,
+  'meV': 1000,
   'cm-1': WAVENUMBER_PER_EV,
   'kJ/mol': KJ_PER_MOL_PER_EV,
   'kcal/mol': KCAL_PER_MOL_PER_EV

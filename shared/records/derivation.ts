@@ -23,7 +23,8 @@ export function rederive (r: RateRecordV1): Rederived | null {
   let d
   try {
     d = drivingForceByProcess(r.process, { ...df.redox, distance: r.geometry?.centerToCenterAngstrom, solventPermittivity: r.medium.permittivity })
-  } catch (e) {
+  }
+  catch (e) {
     if (e instanceof PhysicsInputError) return null // cannot be derived (e.g. process "other"): the deposit check names it
     throw e
   }

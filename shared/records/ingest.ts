@@ -5,10 +5,10 @@
  * compiled schema validator and the solvent table.
  */
 import type { ErrorObject } from 'ajv'
+import type {
+  PhysicsInputError, DistanceUnit, EnergyUnit, PotentialUnit, RateUnit, TemperatureUnit, TimeUnit } from '../physics'
 import {
-  convertEnergy, diffusionLimit, distanceToAngstrom, energyToEv, potentialToVolt, rateFromLifetimes, rateToPerSecond,
-  drivingForceByProcess, temperatureToK, timeToSeconds, wavelengthNmToEv, WAVENUMBER_PER_EV, LIFETIME_FORMULA,
-  PhysicsInputError, type DistanceUnit, type EnergyUnit, type PotentialUnit, type RateUnit, type TemperatureUnit, type TimeUnit
+  convertEnergy, diffusionLimit, distanceToAngstrom, energyToEv, potentialToVolt, rateFromLifetimes, rateToPerSecond, drivingForceByProcess, temperatureToK, timeToSeconds, wavelengthNmToEv, WAVENUMBER_PER_EV, LIFETIME_FORMULA
 } from '../physics'
 import { COLUMN_BY_KEY, columnForPointer } from './columns'
 import type { RateRecordV1 } from './types'
@@ -118,16 +118,20 @@ export function rowToRecord (cells: Record<string, Cell>, units: Record<string, 
   if (rateV !== undefined && rateU) {
     rec.rate = { value: toCanonicalRate(rateV, rateU), kind: bimolecular ? 'bimolecular' : 'unimolecular', method: 'direct' }
     if (rateU !== 's-1' && rateU !== 'M-1 s-1') rec.rate.original = { value: rateV, unit: rateU }
-  } else if (tau !== undefined && tauRef !== undefined && tauU && tauRefU) {
+  }
+  else if (tau !== undefined && tauRef !== undefined && tauU && tauRefU) {
     const t = timeToSeconds(tau, tauU as TimeUnit); const tr = timeToSeconds(tauRef, tauRefU as TimeUnit)
     try {
       const k = rateFromLifetimes(t, tr)
       rec.rate = { value: k, kind: 'unimolecular', method: 'lifetimes', lifetimeS: t, referenceLifetimeS: tr }
       derived.push({ field: 'rate', formula: LIFETIME_FORMULA, value: k, unit: 's-1' })
-    } catch (e) { issue('lifetime', (e as PhysicsInputError).issues?.[0]?.message ?? String(e)) }
-  } else if (tau !== undefined || tauRef !== undefined) {
+    }
+    catch (e) { issue('lifetime', (e as PhysicsInputError).issues?.[0]?.message ?? String(e)) }
+  }
+  else if (tau !== undefined || tauRef !== undefined) {
     issue(tau === undefined ? 'lifetime' : 'reference_lifetime', 'give both lifetimes (with and without the acceptor) to derive the rate')
-  } else {
+  }
+  else {
     issue('rate', 'is required (or give lifetime and reference_lifetime)')
   }
   const ru = num('rate_uncertainty'); const ruU = unitOf('rate_uncertainty')
@@ -165,11 +169,13 @@ export function rowToRecord (cells: Record<string, Cell>, units: Record<string, 
           const rw = drivingForceByProcess(rec.process, { ...redox as never, distance: geometry.centerToCenterAngstrom, solventPermittivity: eps })
           rec.drivingForce = { value: rw.deltaG, method: 'redox-potentials', redox }
           derived.push({ field: 'delta_g', formula: rw.formula, value: rw.deltaG, unit: 'eV' })
-        } catch (e) {
+        }
+        catch (e) {
           for (const i of (e as PhysicsInputError).issues ?? []) issue(i.path === '/acceptorReference' ? 'acceptor_reference' : i.path === '/process' ? 'process' : 'donor_oxidation_potential', i.message)
         }
       }
-    } else if (rec.drivingForce) rec.drivingForce.redox = redox
+    }
+    else if (rec.drivingForce) rec.drivingForce.redox = redox
   }
   const dgu = energy('delta_g_uncertainty')
   if (rec.drivingForce && dgu !== undefined) rec.drivingForce.uncertainty = dgu
@@ -211,7 +217,8 @@ export function checkRecord (r: RateRecordV1, ctx: IngestContext): { issues: Row
         try {
           const rw = drivingForceByProcess(r.process, { ...df.redox, distance: r.geometry?.centerToCenterAngstrom, solventPermittivity: eps })
           if (Math.abs(rw.deltaG - df.value) > 0.005) at(issues, '/drivingForce/value', `does not match the potentials: ${rw.name} gives ${rw.deltaG.toFixed(3)} eV`)
-        } catch (e) {
+        }
+        catch (e) {
           for (const i of (e as PhysicsInputError).issues ?? []) at(issues, i.path === '/process' ? '/process' : '/drivingForce/redox' + i.path, i.message)
         }
       }
@@ -246,7 +253,7 @@ export function checkRecord (r: RateRecordV1, ctx: IngestContext): { issues: Row
 
 /** Schema errors as row issues with the column they belong to. */
 export function schemaIssues (errors: ErrorObject[] | null | undefined): RowIssue[] {
-  return (errors ?? []).filter(e => e.keyword !== 'if' && e.keyword !== 'anyOf' || e.instancePath === '/medium').map((e) => {
+  return (errors ?? []).filter(e => (e.keyword !== 'if' && e.keyword !== 'anyOf') || e.instancePath === '/medium').map((e) => {
     let path = e.instancePath
     let message = e.message ?? 'is not valid'
     if (e.keyword === 'required') { path += `/${(e.params as { missingProperty: string }).missingProperty}`; message = 'is required' }
@@ -273,7 +280,7 @@ export function ingestRow (cells: Record<string, Cell>, units: Record<string, st
 
 function dedupe (xs: RowIssue[]): RowIssue[] {
   const seen = new Set<string>()
-  return xs.filter(x => { const k = `${x.path}|${x.message}`; if (seen.has(k)) return false; seen.add(k); return true })
+  return xs.filter((x) => { const k = `${x.path}|${x.message}`; if (seen.has(k)) return false; seen.add(k); return true })
 }
 
 export { convertEnergy }

@@ -52,7 +52,7 @@ async function upload (name: string, data: Uint8Array) {
   const m = multipart(name, data)
   const url = new URL(`${s.url}/api/v1/datasets/${draftId}/uploads/check`)
   const { status, text } = await new Promise<{ status: number, text: string }>((resolve, reject) => {
-    const req = request({ host: url.hostname, port: url.port, path: url.pathname, method: 'POST', agent: false, headers: { cookie: member, 'content-type': m.type, 'content-length': m.body.length } }, (res) => {
+    const req = request({ host: url.hostname, port: url.port, path: url.pathname, method: 'POST', agent: false, headers: { 'cookie': member, 'content-type': m.type, 'content-length': m.body.length } }, (res) => {
       let text = ''; res.setEncoding('utf8'); res.on('data', (c) => { text += c }); res.on('end', () => resolve({ status: res.statusCode ?? 0, text }))
     })
     req.on('error', reject)
@@ -60,7 +60,8 @@ async function upload (name: string, data: Uint8Array) {
   })
   statuses.push(status)
   let parsed: any = null
-  try { parsed = JSON.parse(text) } catch { /* not JSON */ }
+  try { parsed = JSON.parse(text) }
+  catch { /* not JSON */ }
   return { status, data: parsed }
 }
 
@@ -132,7 +133,7 @@ describe('bodies bounded while they arrive', () => {
   })
   it('80 MB of chunked multipart from a lab member to the upload route: 413', async () => {
     const boundary = 'xx-boundary'
-    const st = await sendChunked(`/api/v1/datasets/${draftId}/uploads/check`, { 'content-type': `multipart/form-data; boundary=${boundary}`, cookie: member }, 80 << 20,
+    const st = await sendChunked(`/api/v1/datasets/${draftId}/uploads/check`, { 'content-type': `multipart/form-data; boundary=${boundary}`, 'cookie': member }, 80 << 20,
       `--${boundary}\r\ncontent-disposition: form-data; name="file"; filename="big.csv"\r\ncontent-type: text/csv\r\n\r\n`)
     statuses.push(st)
     expect([413, 0]).toContain(st)

@@ -185,8 +185,8 @@ describe('security headers', () => {
   it('pages carry a Content-Security-Policy with a nonce that every inline script uses', async () => {
     const r = await fetch(s.url + '/')
     const csp = r.headers.get('content-security-policy')!
-    expect(csp).toContain("object-src 'none'")
-    expect(csp).toContain("frame-ancestors 'none'")
+    expect(csp).toContain('object-src \'none\'')
+    expect(csp).toContain('frame-ancestors \'none\'')
     const nonce = csp.match(/'nonce-([^']+)'/)![1]
     const html = await r.text()
     const scripts = html.match(/<script\b[^>]*>/g) ?? []

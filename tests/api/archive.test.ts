@@ -25,7 +25,7 @@ describe('service routes', () => {
     expect(r.data.openapi).toMatch(/^3\./)
     const dir = join(ROOT, 'server/api/v1')
     const files: string[] = []
-    const walk = (d: string) => { for (const f of readdirSync(d)) { const p = join(d, f); statSync(p).isDirectory() ? walk(p) : files.push(p) } }
+    const walk = (d: string) => { for (const f of readdirSync(d)) { const p = join(d, f); if (statSync(p).isDirectory()) walk(p); else files.push(p) } }
     walk(dir)
     expect(files.length).toBeGreaterThan(8)
     for (const f of files) {

@@ -20,14 +20,17 @@ async function start () {
   const port = await freePort()
   base = `http://127.0.0.1:${port}`
   proc = spawn(process.execPath, [SERVER_ENTRY], { cwd: dir, stdio: 'ignore', env: { ...process.env, PORT: String(port), HOST: '127.0.0.1', NUXT_DATABASE_URL: dbUrl, NUXT_DATA_DIR: join(dir, 'files'), AUTH_ORIGIN: `${base}/api/auth`, NUXT_PUBLIC_BASE_URL: base, NUXT_AUTH_SECRET: 'crash-test' } })
-  for (let i = 0; i < 300; i++) { try { if ((await fetch(`${base}/api/v1/health`)).ok) return } catch { /* starting */ } await new Promise(r => setTimeout(r, 100)) }
+  for (let i = 0; i < 300; i++) {
+    try { if ((await fetch(`${base}/api/v1/health`)).ok) return }
+    catch { /* starting */ } await new Promise(r => setTimeout(r, 100))
+  }
   throw new Error('server did not start')
 }
 function kill () { proc?.kill('SIGKILL'); return new Promise(r => proc!.once('exit', r)) }
 
 async function publishedState () {
   const c = createClient({ url: dbUrl })
-  const rows = (await c.execute("select r.id, r.data, v.doi from rate_record r join dataset_version v on v.id = r.version_id where v.state = 'published' order by r.id")).rows
+  const rows = (await c.execute('select r.id, r.data, v.doi from rate_record r join dataset_version v on v.id = r.version_id where v.state = \'published\' order by r.id')).rows
   c.close()
   return rows.map(r => `${r.id}|${r.doi}|${r.data}`)
 }
@@ -56,7 +59,8 @@ describe('SIGKILL during commits and publications', () => {
       let action: Promise<unknown>
       if (round % 2 === 0) {
         action = api(base, `/api/v1/datasets/${id}/uploads/${up.upload.id}/commit`, { method: 'POST', headers: { cookie: b }, json: { mode: 'append' } }).catch(() => null)
-      } else {
+      }
+      else {
         await api(base, `/api/v1/datasets/${id}/uploads/${up.upload.id}/commit`, { method: 'POST', headers: { cookie: b }, json: { mode: 'append' } })
         await api(base, `/api/v1/datasets/${id}/submit`, { method: 'POST', headers: { cookie: b } })
         const cur = await signIn(base, DEMO.curator)

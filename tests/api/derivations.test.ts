@@ -14,7 +14,7 @@ import type { RateRecordV1 } from '../../shared/records/types'
 
 let s: TestServer
 let db: Client
-let a: string; let curator: string; let otherCurator: string; let admin: string
+let a: string; let otherCurator: string; let admin: string
 let draftId: number
 /** A draft CR record and a published CS record whose stored ΔG° is set wrong before the server starts. */
 const tampered = { draftRecord: 0, draftWrong: 0, draftRight: 0, publishedDataset: 0, publishedRecord: 0 }
@@ -55,7 +55,6 @@ beforeAll(async () => {
   })
   db = createClient({ url: s.dbUrl })
   a = await signIn(s.url, DEMO.contributorA)
-  curator = await signIn(s.url, DEMO.curator)
   admin = await signIn(s.url, DEMO.admin)
   // a curator of no lab, to start corrections of any lab's data
   await api(s.url, '/api/v1/account/signup', { method: 'POST', json: { name: 'Other Curator', email: 'other.curator@example.org', password: 'a-long-enough-password' } })

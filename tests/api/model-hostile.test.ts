@@ -72,10 +72,12 @@ describe('hostile model requests', () => {
       const got = r.data.data.issues.map((i: { path: string }) => i.path)
       for (const p of paths ?? []) expect(got).toContain(p)
       for (const i of r.data.data.issues) expect(i.message.length).toBeGreaterThan(10)
-    } else if (route === 'curve') {
+    }
+    else if (route === 'curve') {
       for (const p of r.data.points) expect(Number.isFinite(p.log10Rate)).toBe(true)
       expect(r.data.termsUsed).toBeLessThan(20_000)
-    } else {
+    }
+    else {
       expect(['converged', 'at-bound', 'stalled']).toContain(r.data.status)
       expect(r.data.converged).toBe(r.data.status !== 'stalled')
       for (const p of Object.values(r.data.parameters) as { value: number }[]) expect(Number.isFinite(p.value)).toBe(true)

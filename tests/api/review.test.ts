@@ -175,8 +175,8 @@ describe('citations of the published version', () => {
     addFormats(ajv)
     const validate = ajv.compile(schema)
     expect(validate(doc), JSON.stringify(validate.errors)).toBe(true)
-    expect(doc).toMatchObject({ 'cff-version': '1.2.0', title: 'Review round under test', version: '2', doi: `10.99999/cp.${id}.v2`, license: 'CC-BY-4.0' })
-    expect(doc.authors[0]).toMatchObject({ 'family-names': 'Orrel', 'given-names': 'Sunniva', orcid: 'https://orcid.org/0000-0002-1825-0097' })
+    expect(doc).toMatchObject({ 'cff-version': '1.2.0', 'title': 'Review round under test', 'version': '2', 'doi': `10.99999/cp.${id}.v2`, 'license': 'CC-BY-4.0' })
+    expect(doc.authors[0]).toMatchObject({ 'family-names': 'Orrel', 'given-names': 'Sunniva', 'orcid': 'https://orcid.org/0000-0002-1825-0097' })
     // the CFF schema must be able to fail: a record without authors is refused
     expect(validate({ ...doc, authors: undefined })).toBe(false)
   })

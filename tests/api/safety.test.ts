@@ -43,7 +43,7 @@ describe('crash safety and start-up checks', () => {
     const port = await freePort()
     const proc = spawn(process.execPath, [SERVER_ENTRY], { cwd: dir, env: { ...process.env, PORT: String(port), HOST: '127.0.0.1', NUXT_DATABASE_URL: `file:${db}`, AUTH_ORIGIN: `http://127.0.0.1:${port}/api/auth`, NUXT_AUTH_SECRET: 'safety-test-secret' } })
     let out = ''
-    proc.stdout.on('data', d => { out += d }); proc.stderr.on('data', d => { out += d })
+    proc.stdout.on('data', (d) => { out += d }); proc.stderr.on('data', (d) => { out += d })
     const code = await new Promise<number | null>(r => proc.on('exit', r))
     expect(code).toBe(1)
     expect(out).toMatch(/\[crosspoint\] start-up failed: The database file:.*bad\.db is damaged \(integrity check: .+\)\. Crosspoint will not serve it; restore the newest backup with npm run restore/)
@@ -72,7 +72,8 @@ describe('backups', () => {
     try {
       expect(await publishedSnapshot(restored.url)).toEqual(before)
       expect((await api(restored.url, '/api/v1/health')).data.status).toBe('ok')
-    } finally { await restored.stop() }
+    }
+    finally { await restored.stop() }
   }, 120_000)
   it('restore refuses while a server uses the database; counts in backup.json come from the copy', async () => {
     const b = await api(s.url, '/api/v1/admin/backups', { method: 'POST', headers: { cookie: admin } })

@@ -80,7 +80,7 @@ describe('the sign-in limit keys on the address as the account does', () => {
       const { csrfToken } = await c.json() as { csrfToken: string }
       const res = await fetch(`${s.url}/api/auth/callback/credentials`, {
         method: 'POST', redirect: 'manual',
-        headers: { 'content-type': 'application/x-www-form-urlencoded', cookie: c.headers.getSetCookie().map(x => x.split(';')[0]).join('; ') },
+        headers: { 'content-type': 'application/x-www-form-urlencoded', 'cookie': c.headers.getSetCookie().map(x => x.split(';')[0]).join('; ') },
         body: new URLSearchParams({ csrfToken, email: variants(i), password: `wrong-${i}`, json: 'true' })
       })
       return res.status

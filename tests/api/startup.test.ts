@@ -15,7 +15,7 @@ describe('start-up', () => {
       env: { ...process.env, PORT: String(port), HOST: '127.0.0.1', NUXT_DATABASE_URL: `file:${join(dir, 'file', 'db.sqlite')}`, AUTH_ORIGIN: `http://127.0.0.1:${port}/api/auth`, NUXT_AUTH_SECRET: 'startup-test-secret' }
     })
     let out = ''
-    proc.stdout.on('data', d => { out += d }); proc.stderr.on('data', d => { out += d })
+    proc.stdout.on('data', (d) => { out += d }); proc.stderr.on('data', (d) => { out += d })
     const code = await new Promise<number | null>(r => proc.on('exit', r))
     rmSync(dir, { recursive: true, force: true })
     expect(code).toBe(1)
@@ -33,7 +33,7 @@ describe('start-up', () => {
     if (!('NUXT_AUTH_SECRET' in extra)) delete env.NUXT_AUTH_SECRET
     const proc = spawn(process.execPath, [SERVER_ENTRY], { cwd: dir, env })
     let out = ''
-    proc.stdout.on('data', d => { out += d }); proc.stderr.on('data', d => { out += d })
+    proc.stdout.on('data', (d) => { out += d }); proc.stderr.on('data', (d) => { out += d })
     const code = await new Promise<number | null>(r => proc.on('exit', r))
     rmSync(dir, { recursive: true, force: true })
     expect(code).toBe(1)

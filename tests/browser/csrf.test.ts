@@ -44,7 +44,7 @@ describe('cross-site request forgery', () => {
       const q = async (sql: string) => Number((await db.execute(sql)).rows[0]!.n)
       return {
         tokens: await q('select count(*) n from api_token'),
-        invites: await q("select count(*) n from verificationToken where identifier like 'invite:%'"),
+        invites: await q('select count(*) n from verificationToken where identifier like \'invite:%\''),
         versions: await q('select count(*) n from dataset_version')
       }
     }
@@ -64,7 +64,7 @@ describe('cross-site request forgery', () => {
     expect(status).toBe(201)
   })
   it('a request naming another origin is refused with 403 before anything else', async () => {
-    const r = await fetch(`${s.url}/api/v1/model/curve`, { method: 'POST', headers: { origin: 'http://evil.example', 'content-type': 'application/json' }, body: '{}' })
+    const r = await fetch(`${s.url}/api/v1/model/curve`, { method: 'POST', headers: { 'origin': 'http://evil.example', 'content-type': 'application/json' }, body: '{}' })
     expect(r.status).toBe(403)
     const r2 = await fetch(`${s.url}/api/v1/model/curve`, { method: 'POST', headers: { 'sec-fetch-site': 'cross-site', 'content-type': 'application/json' }, body: '{}' })
     expect(r2.status).toBe(403)

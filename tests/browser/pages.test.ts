@@ -50,7 +50,7 @@ describe('pages a visitor sees', () => {
     const before = Number((await page.locator('[data-test=total]').textContent())!.replace(/\D/g, ''))
     await page.getByRole('button', { name: /^water/ }).click()
     await page.waitForURL(/solvent=water/)
-    await page.waitForFunction((b) => Number(document.querySelector('[data-test=total]')!.textContent!.replace(/\D/g, '')) < b, before)
+    await page.waitForFunction(b => Number(document.querySelector('[data-test=total]')!.textContent!.replace(/\D/g, '')) < b, before)
     const after = Number((await page.locator('[data-test=total]').textContent())!.replace(/\D/g, ''))
     const apiTotal = (await api(s.url, '/api/v1/records?solvent=water&pageSize=1')).data.total
     expect(after).toBe(apiTotal)

@@ -59,7 +59,7 @@ describe('a curator returns, the contributor answers, the curator accepts', () =
     await vis.page.goto(`${s.url}/datasets/${id}`, { waitUntil: 'networkidle' })
     expect(await vis.page.locator('[data-test=cite-box]').textContent()).toContain(`https://doi.org/10.99999/cp.${id}.v1`)
     const ld = JSON.parse((await vis.page.locator('script[type="application/ld+json"]').textContent())!)
-    expect(ld).toMatchObject({ '@type': 'Dataset', name: 'Round trip in the browser (demo)', identifier: `https://doi.org/10.99999/cp.${id}.v1`, license: 'https://spdx.org/licenses/CC-BY-4.0.html' })
+    expect(ld).toMatchObject({ '@type': 'Dataset', 'name': 'Round trip in the browser (demo)', 'identifier': `https://doi.org/10.99999/cp.${id}.v1`, 'license': 'https://spdx.org/licenses/CC-BY-4.0.html' })
     await shot(vis.page, 'landing-published')
     for (const p of [cur, con, vis]) { expect(p.errors).toEqual([]); await p.page.close() }
   })

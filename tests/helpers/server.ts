@@ -65,7 +65,8 @@ export async function startServer (opts: { seed?: boolean, env?: Record<string, 
     try {
       const r = await fetch(`${url}/api/v1/health`)
       if (r.ok) break
-    } catch { /* not up yet */ }
+    }
+    catch { /* not up yet */ }
     if (Date.now() > deadline) throw new Error(`server did not start:\n${out}`)
     await new Promise(r => setTimeout(r, 100))
   }
@@ -89,7 +90,8 @@ export async function api (base: string, path: string, init: RequestInit & { jso
   const res = await fetch(base + path, { ...init, headers, body, redirect: 'manual' })
   const text = await res.text()
   let data: any = text
-  try { data = JSON.parse(text) } catch { /* not JSON */ }
+  try { data = JSON.parse(text) }
+  catch { /* not JSON */ }
   return { status: res.status, headers: res.headers, data }
 }
 
@@ -108,7 +110,7 @@ export async function signIn (base: string, email: string, password = 'crosspoin
   const { csrfToken } = await csrfRes.json() as { csrfToken: string }
   const res = await fetch(`${base}/api/auth/callback/credentials`, {
     method: 'POST', redirect: 'manual',
-    headers: { 'content-type': 'application/x-www-form-urlencoded', cookie: cookie() },
+    headers: { 'content-type': 'application/x-www-form-urlencoded', 'cookie': cookie() },
     body: new URLSearchParams({ csrfToken, email, password, callbackUrl: base, json: 'true' })
   })
   keep(res)
@@ -123,7 +125,7 @@ export async function signInWithLinkToken (base: string, linkToken: string): Pro
   const { csrfToken } = await csrfRes.json() as { csrfToken: string }
   const res = await fetch(`${base}/api/auth/callback/credentials`, {
     method: 'POST', redirect: 'manual',
-    headers: { 'content-type': 'application/x-www-form-urlencoded', cookie: csrfCookie },
+    headers: { 'content-type': 'application/x-www-form-urlencoded', 'cookie': csrfCookie },
     body: new URLSearchParams({ csrfToken, linkToken, callbackUrl: base, json: 'true' })
   })
   const cookies = res.headers.getSetCookie().map(c => c.split(';')[0])

@@ -79,12 +79,12 @@ export const MAX_XLSX_CELLS = 4_000_000
  * bytes away: the sizes a ZIP declares can lie, the inflated bytes cannot. Stops at the first cap.
  */
 async function checkExpandedSize (buf: Uint8Array): Promise<void> {
-  let total = 0; let problem: FileProblem | null = null
+  let total = 0; let sinceTurn = 0; let problem: FileProblem | null = null
   const unzip = new Unzip((entry) => {
     let mine = 0
     entry.ondata = (err, chunk) => {
       if (err) { problem ??= new FileProblem(422, 'The file is not a readable XLSX workbook', [{ path: '/file', message: 'not XLSX' }]); return }
-      total += chunk.length; mine += chunk.length
+      total += chunk.length; mine += chunk.length; sinceTurn += chunk.length
       if (total > MAX_XLSX_EXPANDED_BYTES) problem ??= new FileProblem(413, `The workbook expands to more than ${MAX_XLSX_EXPANDED_BYTES / 1048576} MB of XML; save the data as CSV, or split it`, [{ path: '/file', message: 'expands too far' }])
       if (/sharedStrings\.xml$/.test(entry.name) && mine > MAX_XLSX_SHARED_STRINGS_BYTES) problem ??= new FileProblem(413, `The workbook's text table is larger than ${MAX_XLSX_SHARED_STRINGS_BYTES / 1048576} MB`, [{ path: '/file', message: 'shared strings too large' }])
       if (problem) entry.terminate()
@@ -94,13 +94,14 @@ async function checkExpandedSize (buf: Uint8Array): Promise<void> {
   unzip.register(UnzipInflate)
   try {
     // small input steps: fflate inflates one push into one buffer, and a 4 kB step expands to at most ~4 MB
-    // (deflate's ratio is below 1 032:1); the event loop gets a turn every 64 kB of input
+    // (deflate's ratio is below 1 032:1); other requests get a turn after every 2 MB inflated or 64 kB read
     const step = 4096
     for (let i = 0, n = 0; i < buf.length && !problem; i += step, n++) {
       unzip.push(buf.subarray(i, Math.min(i + step, buf.length)), i + step >= buf.length)
-      if (n % 16 === 15) await new Promise(resolve => setImmediate(resolve))
+      if (sinceTurn > 2 << 20 || n % 16 === 15) { sinceTurn = 0; await new Promise(resolve => setImmediate(resolve)) }
     }
-  } catch { problem ??= new FileProblem(422, 'The file is not a readable XLSX workbook', [{ path: '/file', message: 'not XLSX' }]) }
+  }
+  catch { problem ??= new FileProblem(422, 'The file is not a readable XLSX workbook', [{ path: '/file', message: 'not XLSX' }]) }
   if (problem) throw problem
 }
 
@@ -123,8 +124,8 @@ export async function parseXlsx (buf: Uint8Array): Promise<Table> {
       const rows: (string | number | null)[][] = []
       let header: string[] = []
       for await (const row of ws) {
-        // other requests get a turn every 2 000 rows (a large sheet takes seconds)
-        if (rows.length % 2000 === 1999) await new Promise(resolve => setImmediate(resolve))
+        // other requests get a turn every 500 rows (a large sheet takes seconds)
+        if (rows.length % 500 === 499) await new Promise(resolve => setImmediate(resolve))
         if (rows.length > MAX_ROWS) throw new FileProblem(413, `Too many rows (at most ${MAX_ROWS} per upload)`, [{ path: '/file', message: 'too many rows' }])
         const width = Math.max(header.length, row.cellCount)
         cells += width
@@ -137,14 +138,18 @@ export async function parseXlsx (buf: Uint8Array): Promise<Table> {
           if (v && typeof v === 'object' && ('formula' in (v as object) || 'sharedFormula' in (v as object))) {
             if (issues.length < 200) issues.push({ row: row.number, column, path: `/file/${cell.address}`, message: `cell ${cell.address} holds a formula; paste values only` })
             vals.push(null)
-          } else if (v && typeof v === 'object' && 'error' in (v as object)) {
+          }
+          else if (v && typeof v === 'object' && 'error' in (v as object)) {
             if (issues.length < 200) issues.push({ row: row.number, column, path: `/file/${cell.address}`, message: `cell ${cell.address} holds the error ${(v as { error: string }).error}` })
             vals.push(null)
-          } else if (v && typeof v === 'object' && 'richText' in (v as object)) {
+          }
+          else if (v && typeof v === 'object' && 'richText' in (v as object)) {
             vals.push((v as { richText: { text: string }[] }).richText.map(t => t.text).join(''))
-          } else if (v instanceof Date) {
+          }
+          else if (v instanceof Date) {
             vals.push(v.toISOString().slice(0, 10))
-          } else vals.push(v === undefined ? null : v as string | number | null)
+          }
+          else vals.push(v === undefined ? null : v as string | number | null)
         }
         if (!rows.length) header = vals.map(h => String(h ?? ''))
         rows.push(vals)
@@ -152,7 +157,8 @@ export async function parseXlsx (buf: Uint8Array): Promise<Table> {
       if (!chosen || isRecords) chosen = { name: ws.name, rows }
       if (isRecords) break
     }
-  } catch (e) {
+  }
+  catch (e) {
     if (e instanceof FileProblem) throw e
     throw new FileProblem(422, 'The file is not a readable XLSX workbook', [{ path: '/file', message: 'not XLSX' }])
   }
@@ -165,7 +171,8 @@ export async function parseXlsx (buf: Uint8Array): Promise<Table> {
 
 export function parseJsonRecords (buf: Uint8Array): unknown[] {
   let data: unknown
-  try { data = JSON.parse(decodeUtf8(buf)) } catch (e) {
+  try { data = JSON.parse(decodeUtf8(buf)) }
+  catch (e) {
     if (e instanceof FileProblem) throw e
     throw new FileProblem(422, `The file is not valid JSON: ${(e as Error).message}`, [{ path: '/file', message: 'not JSON' }])
   }

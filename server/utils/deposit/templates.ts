@@ -16,7 +16,7 @@ export async function xlsxTemplate (): Promise<Buffer> {
   wb.creator = 'Crosspoint'
   const ws = wb.addWorksheet('records')
   ws.addRow(COLUMNS.map(c => headerFor(c)))
-  ws.addRow(COLUMNS.map(c => { const v = EXAMPLE[c.key] ?? ''; return c.kind === 'number' && v !== '' ? Number(v) : v }))
+  ws.addRow(COLUMNS.map((c) => { const v = EXAMPLE[c.key] ?? ''; return c.kind === 'number' && v !== '' ? Number(v) : v }))
   ws.getRow(1).font = { bold: true }
   ws.views = [{ state: 'frozen', ySplit: 1 }]
   const notes = wb.addWorksheet('notes')

@@ -22,7 +22,11 @@ describe('demo scenario chemistry', () => {
   it('a bridge-length series: the distance follows the bridge (longer bridge, longer distance)', () => {
     const ds = DATASETS.find(d => d.key === 'demo-01')!
     const by = new Map<string, number[]>()
-    for (const r of demoRecords(ds, 0)) by.get(r.system.bridge!.name)?.push(r.geometry!.centerToCenterAngstrom!) ?? by.set(r.system.bridge!.name, [r.geometry!.centerToCenterAngstrom!])
+    for (const r of demoRecords(ds, 0)) {
+      const list = by.get(r.system.bridge!.name) ?? []
+      list.push(r.geometry!.centerToCenterAngstrom!)
+      by.set(r.system.bridge!.name, list)
+    }
     const max = (b: string) => Math.max(...by.get(b)!); const min = (b: string) => Math.min(...by.get(b)!)
     expect(max('phenylene')).toBeLessThan(min('biphenylene'))
     expect(max('biphenylene')).toBeLessThan(min('terphenylene'))

@@ -46,14 +46,16 @@ describe('weighted Levenberg–Marquardt fits', () => {
     try {
       fitRates({ model: 'classical', temperatureK: 295, points: [{ deltaG: Number.NaN, log10Rate: 9 }, { deltaG: -0.5 }], fixed: { lambdaSolvent: 0.5 } as never })
       expect.unreachable()
-    } catch (e) {
+    }
+    catch (e) {
       expect(e).toBeInstanceOf(PhysicsInputError)
       expect((e as PhysicsInputError).issues.map(i => i.path)).toEqual(['/fixed/lambdaSolvent'])
     }
     try {
       fitRates({ model: 'classical', temperatureK: 295, points: [{ deltaG: Number.NaN, log10Rate: 9 }, { deltaG: -0.5 }, { deltaG: -0.2, log10Rate: 8 }] })
       expect.unreachable()
-    } catch (e) {
+    }
+    catch (e) {
       expect((e as PhysicsInputError).issues).toEqual([
         { path: '/points/0/deltaG', message: 'Driving force ΔG° must be a finite number' },
         { path: '/points/1', message: 'Each point needs log10Rate or rate' }
@@ -83,7 +85,8 @@ describe('weighted Levenberg–Marquardt fits', () => {
         expect(r.parameters[name]!.stderr).toBeNull()
         expect(r.warnings.join(' ')).toMatch(/ended at the (lower|upper) bound/)
       }
-    } else expect(r.converged).toBe(false)
+    }
+    else expect(r.converged).toBe(false)
   })
   it('λ_i free on classical data: ends at its bound of 0 without ever evaluating λ_i < 0, λ_s and V keep their errors', () => {
     // A classical parabola narrower than any at 298.15 K (made at 230 K): the vibronic sum can only widen it,
@@ -125,7 +128,10 @@ describe('weighted Levenberg–Marquardt fits', () => {
   })
   it('refuses fixed and initial values outside the physical bounds, and a Huang–Rhys factor above 200, naming the field', () => {
     const pts = [{ deltaG: -1, log10Rate: 9 }, { deltaG: -0.5, log10Rate: 9.5 }, { deltaG: -0.2, log10Rate: 9 }]
-    const paths = (fn: () => unknown) => { try { fn(); return [] } catch (e) { return (e as PhysicsInputError).issues.map(i => i.path) } }
+    const paths = (fn: () => unknown) => {
+      try { fn(); return [] }
+      catch (e) { return (e as PhysicsInputError).issues.map(i => i.path) }
+    }
     expect(paths(() => fitRates({ model: 'semiclassical', temperatureK: 295, points: pts, fixed: { lambdaInternal: -1e-7, coupling: 2 } }))).toEqual(['/fixed/lambdaInternal', '/fixed/coupling'])
     expect(paths(() => fitRates({ model: 'semiclassical', temperatureK: 295, points: pts, fixed: { lambdaInternal: 2, vibrationEnergy: 0.005 } }))).toEqual(['/fixed/lambdaInternal'])
     expect(paths(() => fitRates({ model: 'classical', temperatureK: 1e-300, points: pts }))).toEqual(['/temperatureK'])

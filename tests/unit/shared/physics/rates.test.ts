@@ -95,7 +95,8 @@ describe('semi-classical (Marcus–Levich–Jortner)', () => {
     try {
       semiclassicalLog10Rates([0, Number.NaN], { lambdaSolvent: 0, lambdaInternal: -1, vibrationEnergy: 0, coupling: 0.01, temperatureK: -5 })
       expect.unreachable()
-    } catch (e) {
+    }
+    catch (e) {
       expect(e).toBeInstanceOf(PhysicsInputError)
       expect((e as PhysicsInputError).issues.map(i => i.path)).toEqual(['/lambdaSolvent', '/lambdaInternal', '/vibrationEnergy', '/temperatureK'])
     }
@@ -137,7 +138,8 @@ describe('semi-classical (Marcus–Levich–Jortner)', () => {
     try {
       semiclassicalLog10Rates(dg as unknown as number[], { ...base, ...over })
       expect.unreachable()
-    } catch (e) {
+    }
+    catch (e) {
       expect(e).toBeInstanceOf(PhysicsInputError)
       expect((e as PhysicsInputError).issues.map(i => i.path)).toEqual(paths)
     }

@@ -11,7 +11,8 @@ defineRouteMeta({ openAPI: { tags: ['deposit'], summary: 'Step 1 of an upload: c
 export default defineEventHandler(async (event) => {
   const id = intParam(event, 'id')
   let draft
-  try { draft = await requireEditableDraft(event, id) } catch (e) { await discardBody(event, MAX_FILE_BYTES + 65536); throw e }
+  try { draft = await requireEditableDraft(event, id) }
+  catch (e) { await discardBody(event, MAX_FILE_BYTES + 65536); throw e }
   const { viewer, version } = draft
   // at most MAX_CHECKS_AT_ONCE files are read and checked at once on this instance: memory stays bounded
   if (checksRunning >= MAX_CHECKS_AT_ONCE) {
@@ -22,7 +23,8 @@ export default defineEventHandler(async (event) => {
   checksRunning++
   try {
     return await checkUpload(event, viewer.id, version.id)
-  } finally { checksRunning-- }
+  }
+  finally { checksRunning-- }
 })
 
 const MAX_CHECKS_AT_ONCE = 4
@@ -41,7 +43,8 @@ async function checkUpload (event: H3Event, viewerId: string, versionId: number)
       issueCount: res.issueCount, issues: res.issues, warningCount: res.warningCount, warnings: res.warnings,
       preview: res.records.slice(0, 2000).map(r => ({ deltaG: r.drivingForce?.value ?? null, log10Rate: Math.log10(r.rate.value), donor: r.system.donor.name, acceptor: r.system.acceptor.name }))
     }
-  } catch (e) {
+  }
+  catch (e) {
     if (e instanceof FileProblem) throw httpError(e.status, e.message, e.issues)
     throw e
   }
