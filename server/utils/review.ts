@@ -18,7 +18,7 @@ import { publicUrl, sendMail } from './mail'
 import { afterDatasetChange } from './search'
 import { rederiveVersions } from './derivations'
 
-const { datasets, datasetVersions: versions, rateRecords: records, labs, reviews, recordComments, users, labMemberships, auditEvents } = schema
+const { datasets, datasetVersions: versions, rateRecords: records, labs, reviews, recordComments, users, labMemberships } = schema
 type Version = typeof versions.$inferSelect
 
 export const OWN_LAB = 'A curator never reviews a dataset of their own lab'
@@ -293,14 +293,4 @@ export async function withdrawDataset (viewer: Viewer, datasetId: number, reason
   await afterDatasetChange(datasetId)
   for (const to of await labEmails(d.labId)) await sendMail(to, `Withdrawn: dataset ${datasetId}`, `The dataset was withdrawn: ${reason}\nIts identifiers keep resolving to a tombstone page: ${publicUrl(`/datasets/${datasetId}`)}\n`)
   return { state: 'withdrawn' }
-}
-
-/** The audit trail of one dataset, for its lab, curators and admins. */
-export async function datasetAudit (datasetId: number) {
-  const db = await useDb()
-  const vIds = (await db.select({ id: versions.id }).from(versions).where(eq(versions.datasetId, datasetId))).map(v => String(v.id))
-  return db.select({ at: auditEvents.createdAt, action: auditEvents.action, actor: users.name, detail: auditEvents.detail })
-    .from(auditEvents).leftJoin(users, eq(users.id, auditEvents.actorId))
-    .where(sql`(${auditEvents.targetType} = 'dataset' and ${auditEvents.targetId} = ${String(datasetId)}) or (${auditEvents.targetType} = 'dataset_version' and ${auditEvents.targetId} in ${vIds.length ? vIds : ['-']})`)
-    .orderBy(desc(auditEvents.id))
 }

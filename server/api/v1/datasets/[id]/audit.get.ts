@@ -2,7 +2,7 @@ import { requireUser } from '../../../../utils/auth'
 import { getDataset } from '../../../../utils/archive'
 import { httpError, MESSAGES } from '../../../../utils/errors'
 import { intParam } from '../../../../utils/params'
-import { datasetAudit } from '../../../../utils/review'
+import { datasetAudit } from '../../../../utils/audit'
 
 defineRouteMeta({ openAPI: { tags: ['review'], summary: 'The audit trail of one dataset (its lab, curators and admins)' } })
 
