@@ -23,7 +23,12 @@ describe('a new person signs up', () => {
     const adminCtx = await browser.newContext()
     const adminPage = await adminCtx.newPage()
     await signInAs(adminPage, s.url, DEMO.admin)
-    await adminPage.goto(`${s.url}/admin?tab=outbox`, { waitUntil: 'networkidle' })
+    // The mail is written after the neutral-timed answer (server/utils/accounts.ts): reload until it is listed.
+    for (let i = 0; i < 30; i++) {
+      await adminPage.goto(`${s.url}/admin?tab=outbox`, { waitUntil: 'networkidle' })
+      if (await adminPage.getByText('Confirm your e-mail address for Crosspoint').count()) break
+      await adminPage.waitForTimeout(300)
+    }
     await adminPage.getByText('Confirm your e-mail address for Crosspoint').first().click()
     const body = await adminPage.locator('[data-test=mail-body]').textContent()
     await shot(adminPage, 'admin-outbox')

@@ -134,12 +134,22 @@ export async function signInWithLinkToken (base: string, linkToken: string): Pro
 }
 
 /** The newest mail to an address (read through the admin outbox), and the first link in it. */
+/**
+ * The newest mail to `to` once its send has finished. Account mail is sent after a neutral-timed answer
+ * (server/utils/accounts.ts), so it may still be queued when the request returns: wait up to 15 s.
+ */
 export async function lastMailTo (base: string, adminCookie: string, to: string) {
-  const r = await api(base, '/api/v1/admin/outbox', { headers: { cookie: adminCookie } })
-  const m = (r.data.items as { to: string, subject: string, text: string, status: string }[]).find(x => x.to === to)
-  if (!m) throw new Error(`no mail to ${to}`)
-  const link = m.text.match(/https?:\/\/\S+/)?.[0] ?? ''
-  return { ...m, link, token: link ? new URL(link).searchParams.get('token') ?? '' : '' }
+  const until = Date.now() + 15_000
+  for (;;) {
+    const r = await api(base, '/api/v1/admin/outbox', { headers: { cookie: adminCookie } })
+    const m = (r.data.items as { to: string, subject: string, text: string, status: string }[]).find(x => x.to === to)
+    if (m && m.status !== 'queued') {
+      const link = m.text.match(/https?:\/\/\S+/)?.[0] ?? ''
+      return { ...m, link, token: link ? new URL(link).searchParams.get('token') ?? '' : '' }
+    }
+    if (Date.now() > until) throw new Error(m ? `mail to ${to} still queued after 15 s` : `no mail to ${to}`)
+    await new Promise(resolve => setTimeout(resolve, 100))
+  }
 }
 
 export const DEMO = {
