@@ -30,10 +30,16 @@ export function orcidFromDigits (fifteen: string): string {
 
 /** DOI syntax: "10." + registrant code (dot-separated digits) + "/" + a non-empty suffix. */
 export function isValidDoi (input: string): boolean {
-  const s = input.trim().replace(/^https?:\/\/(dx\.)?doi\.org\//i, '').replace(/^doi:/i, '')
+  const s = input
+    .trim()
+    .replace(/^https?:\/\/(dx\.)?doi\.org\//i, '')
+    .replace(/^doi:/i, '')
   return /^10\.\d{4,9}(\.\d+)*\/\S+$/.test(s)
 }
 
 export function normalizeDoi (input: string): string {
-  return input.trim().replace(/^https?:\/\/(dx\.)?doi\.org\//i, '').replace(/^doi:/i, '')
+  return input
+    .trim()
+    .replace(/^https?:\/\/(dx\.)?doi\.org\//i, '')
+    .replace(/^doi:/i, '')
 }

@@ -1,3 +1,14 @@
 /** Crosspoint's categorical plot colours: chosen to stay apart under the common colour-vision deficiencies. */
-export const PLOT_PALETTE = ['#1f6f8b', '#d68a4f', '#4f9a45', '#a4508b', '#d9b43a', '#5e60c9', '#8c5a3c', '#3fa7a0', '#c24b4b', '#6d7f8c']
+export const PLOT_PALETTE = [
+  '#1f6f8b',
+  '#d68a4f',
+  '#4f9a45',
+  '#a4508b',
+  '#d9b43a',
+  '#5e60c9',
+  '#8c5a3c',
+  '#3fa7a0',
+  '#c24b4b',
+  '#6d7f8c'
+]
 export const CURVE_COLORS = { classical: '#11262b', semiclassical: '#c0702f' }

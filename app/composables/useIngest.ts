@@ -6,9 +6,15 @@ import validateRecordSchema from '#shared/records/generated/rate-record.validate
 export async function useIngest () {
   const { data } = await useFetch('/api/v1/solvents')
   const ctx = computed<IngestContext>(() => ({
-    solvents: new Map((data.value?.items ?? []).map(s => [s.name.toLowerCase(), { name: s.name, permittivity: s.permittivity, refractiveIndex: s.refractiveIndex, viscosity: s.viscosity }]))
+    solvents: new Map(
+      (data.value?.items ?? []).map(s => [
+        s.name.toLowerCase(),
+        { name: s.name, permittivity: s.permittivity, refractiveIndex: s.refractiveIndex, viscosity: s.viscosity }
+      ])
+    )
   }))
   const solventNames = computed(() => (data.value?.items ?? []).map(s => s.name))
-  const check = (cells: Record<string, Cell>, units: Record<string, string | undefined>) => ingestRow(cells, units, validateRecordSchema as SchemaValidator, ctx.value)
+  const check = (cells: Record<string, Cell>, units: Record<string, string | undefined>) =>
+    ingestRow(cells, units, validateRecordSchema as SchemaValidator, ctx.value)
   return { check, solventNames, ctx }
 }

@@ -1,10 +1,20 @@
 /** Plain-language labels for the format's enumerations. */
 export const PROCESS_LABELS: Record<string, string> = {
-  'charge-separation': 'charge separation', 'charge-recombination': 'charge recombination', 'charge-shift': 'charge shift', 'hole-transfer': 'hole transfer', 'other': 'other'
+  'charge-separation': 'charge separation',
+  'charge-recombination': 'charge recombination',
+  'charge-shift': 'charge shift',
+  'hole-transfer': 'hole transfer',
+  'other': 'other'
 }
 export const TECHNIQUE_LABELS: Record<string, string> = {
-  'transient-absorption': 'transient absorption', 'tcspc': 'time-correlated photon counting', 'upconversion': 'fluorescence upconversion', 'streak-camera': 'streak camera',
-  'pulse-radiolysis': 'pulse radiolysis', 'microwave-conductivity': 'microwave conductivity', 'steady-state-quenching': 'steady-state quenching', 'other': 'other'
+  'transient-absorption': 'transient absorption',
+  'tcspc': 'time-correlated photon counting',
+  'upconversion': 'fluorescence upconversion',
+  'streak-camera': 'streak camera',
+  'pulse-radiolysis': 'pulse radiolysis',
+  'microwave-conductivity': 'microwave conductivity',
+  'steady-state-quenching': 'steady-state quenching',
+  'other': 'other'
 }
 export function label (value: string | null | undefined): string {
   if (!value) return '—'

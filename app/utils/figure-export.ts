@@ -3,7 +3,8 @@
 /** The plot's SVG with the caption written under it in lines of at most 150 characters, as a standalone file. */
 export function captionedSvg (svg: SVGSVGElement, caption: string): string {
   const clone = svg.cloneNode(true) as SVGSVGElement
-  const w = Number(clone.getAttribute('width')); const h = Number(clone.getAttribute('height'))
+  const w = Number(clone.getAttribute('width'))
+  const h = Number(clone.getAttribute('height'))
   const lines = caption.match(/.{1,150}(\s|$)/g) ?? [caption]
   clone.setAttribute('height', String(h + 16 * lines.length + 10))
   clone.setAttribute('xmlns', 'http://www.w3.org/2000/svg')

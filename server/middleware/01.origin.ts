@@ -16,9 +16,14 @@ export default defineEventHandler((event) => {
   const origin = getHeader(event, 'origin')
   const site = getHeader(event, 'sec-fetch-site')
   if (origin !== undefined) {
-    if (!allowedOrigins(event).has(origin)) throw httpError(403, 'Cross-site request refused: this action must come from a Crosspoint page', [{ path: '/', message: `origin ${origin.slice(0, 100)} is not this site` }])
+    if (!allowedOrigins(event).has(origin))
+      throw httpError(403, 'Cross-site request refused: this action must come from a Crosspoint page', [
+        { path: '/', message: `origin ${origin.slice(0, 100)} is not this site` }
+      ])
   }
   else if (site !== undefined && site !== 'same-origin' && site !== 'none') {
-    throw httpError(403, 'Cross-site request refused: this action must come from a Crosspoint page', [{ path: '/', message: `sec-fetch-site ${site.slice(0, 40)}` }])
+    throw httpError(403, 'Cross-site request refused: this action must come from a Crosspoint page', [
+      { path: '/', message: `sec-fetch-site ${site.slice(0, 40)}` }
+    ])
   }
 })

@@ -16,15 +16,31 @@ export default defineEventHandler(async (event) => {
   const type = (getHeader(event, 'content-type') ?? '').toLowerCase()
   if (UPLOAD_ROUTE.test(path)) {
     // the handler streams it; a declared length over the cap is refused before a byte is read
-    if (Number(getHeader(event, 'content-length') ?? 0) > MAX_FILE_BYTES + 64 * 1024) tooLarge(event, MAX_FILE_BYTES, 'Uploaded files')
+    if (Number(getHeader(event, 'content-length') ?? 0) > MAX_FILE_BYTES + 64 * 1024)
+      tooLarge(event, MAX_FILE_BYTES, 'Uploaded files')
     return
   }
-  if (path.startsWith('/api/auth/')) { await readCappedBody(event, MAX_AUTH_BYTES); return }
-  if (!path.startsWith('/api/')) { await readCappedBody(event, MAX_AUTH_BYTES); return }
-  const hasBody = Number(getHeader(event, 'content-length') ?? 0) > 0 || /\bchunked\b/i.test(getHeader(event, 'transfer-encoding') ?? '')
+  if (path.startsWith('/api/auth/')) {
+    await readCappedBody(event, MAX_AUTH_BYTES)
+    return
+  }
+  if (!path.startsWith('/api/')) {
+    await readCappedBody(event, MAX_AUTH_BYTES)
+    return
+  }
+  const hasBody
+    = Number(getHeader(event, 'content-length') ?? 0) > 0
+      || /\bchunked\b/i.test(getHeader(event, 'transfer-encoding') ?? '')
   if (hasBody && !type.startsWith('application/json') && !type.endsWith('+json')) {
-    throw httpError(415, 'The API takes JSON bodies (Content-Type: application/json); files go to the upload route as multipart/form-data', [{ path: '/', message: `unsupported content type "${type.slice(0, 80) || 'none'}"` }])
+    throw httpError(
+      415,
+      'The API takes JSON bodies (Content-Type: application/json); files go to the upload route as multipart/form-data',
+      [{ path: '/', message: `unsupported content type "${type.slice(0, 80) || 'none'}"` }]
+    )
   }
   const raw = await readCappedBody(event, MAX_JSON_BYTES)
-  if (raw.length && jsonDepth(raw.toString('utf8')) > MAX_JSON_DEPTH) throw httpError(413, `JSON nested deeper than ${MAX_JSON_DEPTH} levels is refused`, [{ path: '/', message: 'nested too deeply' }])
+  if (raw.length && jsonDepth(raw.toString('utf8')) > MAX_JSON_DEPTH)
+    throw httpError(413, `JSON nested deeper than ${MAX_JSON_DEPTH} levels is refused`, [
+      { path: '/', message: 'nested too deeply' }
+    ])
 })

@@ -4,6 +4,6 @@ import { normalizeEmail } from '../utils/auth'
 
 export default defineEventHandler(async (event) => {
   if (event.method !== 'POST' || !event.path.startsWith('/api/auth/callback/credentials')) return
-  const body = await readBody(event).catch(() => ({})) as { email?: unknown }
+  const body = (await readBody(event).catch(() => ({}))) as { email?: unknown }
   limitRate(event, `signin|${normalizeEmail(body?.email)}`, 10, 900)
 })

@@ -10,8 +10,12 @@ function markDatabaseInUse (): void {
   const mark = serverMarkPath(resolveFileUrl(url))
   writeFileSync(mark, `${process.pid}\n`)
   const clear = () => {
-    try { rmSync(mark, { force: true }) }
-    catch { /* already gone */ }
+    try {
+      rmSync(mark, { force: true })
+    }
+    catch {
+      /* already gone */
+    }
   }
   process.once('exit', clear)
 }

@@ -3,6 +3,8 @@ import { syncFromDatabase, useSearch } from '../utils/search'
 
 export default defineNitroPlugin(() => {
   useSearch().catch(e => console.error(`[crosspoint] search index: ${(e as Error).message}`))
-  const timer = setInterval(() => { syncFromDatabase().catch(() => {}) }, 15_000)
+  const timer = setInterval(() => {
+    syncFromDatabase().catch(() => {})
+  }, 15_000)
   timer.unref()
 })

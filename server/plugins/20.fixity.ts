@@ -3,7 +3,14 @@ import { checkFixity } from '../utils/fixity'
 
 export default defineNitroPlugin(() => {
   const timer = setInterval(() => {
-    checkFixity().then((r) => { if (r.problems.length) console.error(`[crosspoint] fixity: ${r.problems.length} stored file(s) missing or changed: ${r.problems.map(p => p.storageKey).join(', ')}`) }).catch(() => {})
+    checkFixity()
+      .then((r) => {
+        if (r.problems.length)
+          console.error(
+            `[crosspoint] fixity: ${r.problems.length} stored file(s) missing or changed: ${r.problems.map(p => p.storageKey).join(', ')}`
+          )
+      })
+      .catch(() => {})
   }, 24 * 3600e3)
   timer.unref()
 })

@@ -5,7 +5,13 @@
 import { reconcileIdentifiers } from '../utils/review'
 
 export default defineNitroPlugin(() => {
-  const run = () => { reconcileIdentifiers().then((r) => { if (r.madeFindable) console.log(`[crosspoint] identifiers: ${r.madeFindable} version(s) made findable`) }).catch(() => {}) }
+  const run = () => {
+    reconcileIdentifiers()
+      .then((r) => {
+        if (r.madeFindable) console.log(`[crosspoint] identifiers: ${r.madeFindable} version(s) made findable`)
+      })
+      .catch(() => {})
+  }
   setTimeout(run, 5_000).unref()
   setInterval(run, 5 * 60e3).unref()
 })

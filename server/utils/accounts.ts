@@ -14,7 +14,10 @@ export const passwordSchema = { type: 'string', minLength: 10, maxLength: 200 } 
 
 export async function findUserByEmail (email: string) {
   const db = await useDb()
-  const [u] = await db.select().from(schema.users).where(eq(schema.users.email, normalizeEmail(email)))
+  const [u] = await db
+    .select()
+    .from(schema.users)
+    .where(eq(schema.users.email, normalizeEmail(email)))
   return u
 }
 
@@ -27,7 +30,9 @@ export async function findUserByEmail (email: string) {
 export const NEUTRAL_ANSWER_MS = 400
 export async function neutralTiming (work: () => Promise<unknown>): Promise<void> {
   const floor = new Promise(resolve => setTimeout(resolve, NEUTRAL_ANSWER_MS))
-  const done = work().catch((e) => { console.error('[crosspoint] account mail:', (e as Error).message) })
+  const done = work().catch((e) => {
+    console.error('[crosspoint] account mail:', (e as Error).message)
+  })
   await Promise.all([floor, Promise.race([done, new Promise(resolve => setTimeout(resolve, NEUTRAL_ANSWER_MS))])])
 }
 
@@ -41,22 +46,35 @@ export async function signUp (name: string, email: string, password: string): Pr
     const hashed = await hashPassword(password) // on both paths, so that they cost the same
     const existing = await findUserByEmail(key)
     if (existing) {
-      await sendMail(key, 'Someone tried to create a Crosspoint account with your address',
-        `Someone (perhaps you) tried to create a Crosspoint account with this address, which already has one.\nIf it was you, sign in or reset your password: ${publicUrl('/signin')}\nIf not, you can ignore this message; nothing was changed.\n`)
+      await sendMail(
+        key,
+        'Someone tried to create a Crosspoint account with your address',
+        `Someone (perhaps you) tried to create a Crosspoint account with this address, which already has one.\nIf it was you, sign in or reset your password: ${publicUrl('/signin')}\nIf not, you can ignore this message; nothing was changed.\n`
+      )
       return
     }
     const db = await useDb()
-    const [u] = await db.insert(schema.users).values({ name: name.trim(), email: key, passwordHash: hashed, role: 'contributor' }).onConflictDoNothing().returning()
+    const [u] = await db
+      .insert(schema.users)
+      .values({ name: name.trim(), email: key, passwordHash: hashed, role: 'contributor' })
+      .onConflictDoNothing()
+      .returning()
     if (!u) return // created at the same moment by a parallel request
     const token = await createOneTimeToken('verify', key, 48 * 60)
-    await sendMail(key, 'Confirm your e-mail address for Crosspoint',
-      `Hello ${name.trim()},\n\nConfirm your address to finish creating your Crosspoint account:\n${publicUrl(`/verify?token=${token}`)}\n\nThe link works once, for 48 hours. If you did not sign up, ignore this message.\n`)
+    await sendMail(
+      key,
+      'Confirm your e-mail address for Crosspoint',
+      `Hello ${name.trim()},\n\nConfirm your address to finish creating your Crosspoint account:\n${publicUrl(`/verify?token=${token}`)}\n\nThe link works once, for 48 hours. If you did not sign up, ignore this message.\n`
+    )
   })
 }
 
 export async function markVerified (email: string) {
   const db = await useDb()
-  await db.update(schema.users).set({ emailVerified: new Date(), updatedAt: new Date() }).where(eq(schema.users.email, email))
+  await db
+    .update(schema.users)
+    .set({ emailVerified: new Date(), updatedAt: new Date() })
+    .where(eq(schema.users.email, email))
 }
 
 export async function sendSignInLink (email: string): Promise<void> {
@@ -64,7 +82,11 @@ export async function sendSignInLink (email: string): Promise<void> {
     const u = await findUserByEmail(email)
     if (!u) return
     const token = await createOneTimeToken('login', u.email, 15)
-    await sendMail(u.email, 'Your Crosspoint sign-in link', `Sign in to Crosspoint with this link (one use, 15 minutes):\n${publicUrl(`/signin/link?token=${token}`)}\n`)
+    await sendMail(
+      u.email,
+      'Your Crosspoint sign-in link',
+      `Sign in to Crosspoint with this link (one use, 15 minutes):\n${publicUrl(`/signin/link?token=${token}`)}\n`
+    )
   })
 }
 
@@ -73,7 +95,11 @@ export async function sendPasswordReset (email: string): Promise<void> {
     const u = await findUserByEmail(email)
     if (!u) return
     const token = await createOneTimeToken('reset', u.email, 60)
-    await sendMail(u.email, 'Reset your Crosspoint password', `Choose a new password with this link (one use, 60 minutes; it replaces any earlier link):\n${publicUrl(`/reset?token=${token}`)}\n\nIf you did not ask for this, ignore this message; your password is unchanged.\n`)
+    await sendMail(
+      u.email,
+      'Reset your Crosspoint password',
+      `Choose a new password with this link (one use, 60 minutes; it replaces any earlier link):\n${publicUrl(`/reset?token=${token}`)}\n\nIf you did not ask for this, ignore this message; your password is unchanged.\n`
+    )
   })
 }
 
@@ -83,10 +109,18 @@ export async function sendPasswordReset (email: string): Promise<void> {
  */
 export async function setPassword (email: string, password: string): Promise<{ tokens: number }> {
   const db = await useDb()
-  const [u] = await db.update(schema.users).set({ passwordHash: await hashPassword(password), emailVerified: new Date(), updatedAt: new Date() }).where(eq(schema.users.email, email)).returning({ id: schema.users.id })
+  const [u] = await db
+    .update(schema.users)
+    .set({ passwordHash: await hashPassword(password), emailVerified: new Date(), updatedAt: new Date() })
+    .where(eq(schema.users.email, email))
+    .returning({ id: schema.users.id })
   if (!u) return { tokens: 0 }
   await endAllSessions(u.id)
-  const revoked = await db.update(schema.apiTokens).set({ revokedAt: new Date() }).where(and(eq(schema.apiTokens.userId, u.id), isNull(schema.apiTokens.revokedAt))).returning({ id: schema.apiTokens.id })
+  const revoked = await db
+    .update(schema.apiTokens)
+    .set({ revokedAt: new Date() })
+    .where(and(eq(schema.apiTokens.userId, u.id), isNull(schema.apiTokens.revokedAt)))
+    .returning({ id: schema.apiTokens.id })
   return { tokens: revoked.length }
 }
 
@@ -94,19 +128,35 @@ export async function setPassword (email: string, password: string): Promise<{ t
 export async function createApiToken (userId: string, name: string) {
   const raw = `cpt_${randomBytes(24).toString('base64url')}`
   const db = await useDb()
-  const [row] = await db.insert(schema.apiTokens).values({ userId, name, tokenHash: hashToken(raw), prefix: raw.slice(0, 8) }).returning()
+  const [row] = await db
+    .insert(schema.apiTokens)
+    .values({ userId, name, tokenHash: hashToken(raw), prefix: raw.slice(0, 8) })
+    .returning()
   return { id: row!.id, name: row!.name, prefix: row!.prefix, createdAt: row!.createdAt, token: raw }
 }
 
 export async function listApiTokens (userId: string) {
   const db = await useDb()
-  return db.select({ id: schema.apiTokens.id, name: schema.apiTokens.name, prefix: schema.apiTokens.prefix, createdAt: schema.apiTokens.createdAt, lastUsedAt: schema.apiTokens.lastUsedAt, revokedAt: schema.apiTokens.revokedAt })
-    .from(schema.apiTokens).where(eq(schema.apiTokens.userId, userId)).orderBy(schema.apiTokens.id)
+  return db
+    .select({
+      id: schema.apiTokens.id,
+      name: schema.apiTokens.name,
+      prefix: schema.apiTokens.prefix,
+      createdAt: schema.apiTokens.createdAt,
+      lastUsedAt: schema.apiTokens.lastUsedAt,
+      revokedAt: schema.apiTokens.revokedAt
+    })
+    .from(schema.apiTokens)
+    .where(eq(schema.apiTokens.userId, userId))
+    .orderBy(schema.apiTokens.id)
 }
 
 export async function revokeApiToken (userId: string, id: number) {
   const db = await useDb()
-  const rows = await db.update(schema.apiTokens).set({ revokedAt: new Date() })
-    .where(and(eq(schema.apiTokens.id, id), eq(schema.apiTokens.userId, userId), isNull(schema.apiTokens.revokedAt))).returning({ id: schema.apiTokens.id })
+  const rows = await db
+    .update(schema.apiTokens)
+    .set({ revokedAt: new Date() })
+    .where(and(eq(schema.apiTokens.id, id), eq(schema.apiTokens.userId, userId), isNull(schema.apiTokens.revokedAt)))
+    .returning({ id: schema.apiTokens.id })
   if (!rows.length) throw httpError(404, 'No such active token')
 }

@@ -47,21 +47,49 @@ function visibleV2 (viewer: Viewer | null): SQL {
   return sql`(${sql.join(parts, sql` or `)})`
 }
 
-export async function listDatasets (viewer: Viewer | null, opts: { state?: string, labId?: number, q?: string, limit: number, offset: number }) {
+export async function listDatasets (
+  viewer: Viewer | null,
+  opts: { state?: string, labId?: number, q?: string, limit: number, offset: number }
+) {
   const db = await useDb()
-  const where = and(visibleVersionsWhere(viewer), opts.state ? eq(versions.state, opts.state as never) : undefined,
+  const where = and(
+    visibleVersionsWhere(viewer),
+    opts.state ? eq(versions.state, opts.state as never) : undefined,
     opts.labId ? eq(datasets.labId, opts.labId) : undefined,
     opts.q ? sql`lower(${versions.title}) like ${'%' + opts.q.toLowerCase() + '%'}` : undefined,
     // one row per dataset: its newest version the viewer can see (a published dataset stays listed
     // for visitors while its next version is drafted or in review)
-    sql`${versions.versionNumber} = (select max(v2.version_number) from dataset_version v2 where v2.dataset_id = ${datasets.id} and ${visibleV2(viewer)})`)
-  const rows = await db.select({
-    id: datasets.id, labId: datasets.labId, labName: labs.name, conceptDoi: datasets.conceptDoi, isDemo: datasets.isDemo,
-    versionNumber: versions.versionNumber, state: versions.state, title: versions.title, doi: versions.doi,
-    recordCount: versions.recordCount, license: versions.license, publishedAt: versions.publishedAt, submittedAt: versions.submittedAt, updatedAt: versions.updatedAt
-  }).from(versions).innerJoin(datasets, eq(versions.datasetId, datasets.id)).innerJoin(labs, eq(labs.id, datasets.labId))
-    .where(where).orderBy(desc(versions.updatedAt)).limit(opts.limit).offset(opts.offset)
-  const [{ n }] = await db.select({ n: sql<number>`count(*)` }).from(versions).innerJoin(datasets, eq(versions.datasetId, datasets.id)).where(where) as [{ n: number }]
+    sql`${versions.versionNumber} = (select max(v2.version_number) from dataset_version v2 where v2.dataset_id = ${datasets.id} and ${visibleV2(viewer)})`
+  )
+  const rows = await db
+    .select({
+      id: datasets.id,
+      labId: datasets.labId,
+      labName: labs.name,
+      conceptDoi: datasets.conceptDoi,
+      isDemo: datasets.isDemo,
+      versionNumber: versions.versionNumber,
+      state: versions.state,
+      title: versions.title,
+      doi: versions.doi,
+      recordCount: versions.recordCount,
+      license: versions.license,
+      publishedAt: versions.publishedAt,
+      submittedAt: versions.submittedAt,
+      updatedAt: versions.updatedAt
+    })
+    .from(versions)
+    .innerJoin(datasets, eq(versions.datasetId, datasets.id))
+    .innerJoin(labs, eq(labs.id, datasets.labId))
+    .where(where)
+    .orderBy(desc(versions.updatedAt))
+    .limit(opts.limit)
+    .offset(opts.offset)
+  const [{ n }] = (await db
+    .select({ n: sql<number>`count(*)` })
+    .from(versions)
+    .innerJoin(datasets, eq(versions.datasetId, datasets.id))
+    .where(where)) as [{ n: number }]
   return { total: n, items: rows }
 }
 
@@ -89,12 +117,46 @@ export function isUnderEmbargo (v: { embargoUntil: string | null }): boolean {
 
 /** Columns of a version's records: `summary` leaves out each record's full JSON (tables and plots need only these). */
 export type RecordDetail = 'full' | 'summary'
-export async function versionRecords (versionId: number, range: { offset: number, limit: number }, detail: RecordDetail = 'full') {
+export async function versionRecords (
+  versionId: number,
+  range: { offset: number, limit: number },
+  detail: RecordDetail = 'full'
+) {
   const { offset, limit } = range
   const db = await useDb()
-  const summary = { id: records.id, position: records.position, recordKey: records.recordKey, deltaG: records.deltaG, log10Rate: records.log10Rate, rate: records.rate, rateKind: records.rateKind, process: records.process, solvent: records.solvent, temperatureK: records.temperatureK, donorName: records.donorName, acceptorName: records.acceptorName, bridgeName: records.bridgeName, distanceAngstrom: records.distanceAngstrom, technique: records.technique, linkage: records.linkage }
-  if (detail === 'summary') return db.select(summary).from(records).where(eq(records.versionId, versionId)).orderBy(records.position).limit(limit).offset(offset)
-  return db.select({ ...summary, data: records.data }).from(records).where(eq(records.versionId, versionId)).orderBy(records.position).limit(limit).offset(offset)
+  const summary = {
+    id: records.id,
+    position: records.position,
+    recordKey: records.recordKey,
+    deltaG: records.deltaG,
+    log10Rate: records.log10Rate,
+    rate: records.rate,
+    rateKind: records.rateKind,
+    process: records.process,
+    solvent: records.solvent,
+    temperatureK: records.temperatureK,
+    donorName: records.donorName,
+    acceptorName: records.acceptorName,
+    bridgeName: records.bridgeName,
+    distanceAngstrom: records.distanceAngstrom,
+    technique: records.technique,
+    linkage: records.linkage
+  }
+  if (detail === 'summary')
+    return db
+      .select(summary)
+      .from(records)
+      .where(eq(records.versionId, versionId))
+      .orderBy(records.position)
+      .limit(limit)
+      .offset(offset)
+  return db
+    .select({ ...summary, data: records.data })
+    .from(records)
+    .where(eq(records.versionId, versionId))
+    .orderBy(records.position)
+    .limit(limit)
+    .offset(offset)
 }
 
 /** Records of the newest published, out-of-embargo version of each dataset: what anyone may download. */
@@ -103,22 +165,47 @@ export function publishedRecordsWhere (): SQL {
 }
 
 export const RECORD_LIST_COLUMNS = {
-  id: records.id, versionId: records.versionId, datasetId: datasets.id, datasetTitle: versions.title, doi: versions.doi, labName: labs.name,
-  donorName: records.donorName, acceptorName: records.acceptorName, bridgeName: records.bridgeName, linkage: records.linkage,
-  process: records.process, solvent: records.solvent, technique: records.technique, temperatureK: records.temperatureK,
-  distanceAngstrom: records.distanceAngstrom, rate: records.rate, rateKind: records.rateKind, log10Rate: records.log10Rate, deltaG: records.deltaG,
+  id: records.id,
+  versionId: records.versionId,
+  datasetId: datasets.id,
+  datasetTitle: versions.title,
+  doi: versions.doi,
+  labName: labs.name,
+  donorName: records.donorName,
+  acceptorName: records.acceptorName,
+  bridgeName: records.bridgeName,
+  linkage: records.linkage,
+  process: records.process,
+  solvent: records.solvent,
+  technique: records.technique,
+  temperatureK: records.temperatureK,
+  distanceAngstrom: records.distanceAngstrom,
+  rate: records.rate,
+  rateKind: records.rateKind,
+  log10Rate: records.log10Rate,
+  deltaG: records.deltaG,
   rateUncertainty: sql<number | null>`json_extract(${records.data}, '$.rate.uncertainty')`,
   lambdaSolvent: sql<number | null>`json_extract(${records.data}, '$.reportedParameters.lambdaSolvent')`,
-  license: versions.license, versionNumber: versions.versionNumber
+  license: versions.license,
+  versionNumber: versions.versionNumber
 }
 
 /** The list rows of the given records, in the given order, with the search score. */
 export async function pagedRecords (ids: { id: number, score: number }[]) {
   if (!ids.length) return []
   const db = await useDb()
-  const rows = await db.select(RECORD_LIST_COLUMNS).from(records)
-    .innerJoin(versions, eq(records.versionId, versions.id)).innerJoin(datasets, eq(versions.datasetId, datasets.id)).innerJoin(labs, eq(labs.id, datasets.labId))
-    .where(inArray(records.id, ids.map(i => i.id)))
+  const rows = await db
+    .select(RECORD_LIST_COLUMNS)
+    .from(records)
+    .innerJoin(versions, eq(records.versionId, versions.id))
+    .innerJoin(datasets, eq(versions.datasetId, datasets.id))
+    .innerJoin(labs, eq(labs.id, datasets.labId))
+    .where(
+      inArray(
+        records.id,
+        ids.map(i => i.id)
+      )
+    )
   const byId = new Map(rows.map(r => [r.id, r]))
   return ids.map(i => ({ ...byId.get(i.id)!, score: i.score })).filter(r => r.id !== undefined)
 }
@@ -126,11 +213,19 @@ export async function pagedRecords (ids: { id: number, score: number }[]) {
 /** One record with its dataset; published ones for everybody, others only for who may see the version. */
 export async function getRecord (viewer: Viewer | null, id: number) {
   const db = await useDb()
-  const [row] = await db.select({ record: records, version: versions, dataset: datasets, labName: labs.name })
-    .from(records).innerJoin(versions, eq(records.versionId, versions.id)).innerJoin(datasets, eq(versions.datasetId, datasets.id)).innerJoin(labs, eq(labs.id, datasets.labId))
+  const [row] = await db
+    .select({ record: records, version: versions, dataset: datasets, labName: labs.name })
+    .from(records)
+    .innerJoin(versions, eq(records.versionId, versions.id))
+    .innerJoin(datasets, eq(versions.datasetId, datasets.id))
+    .innerJoin(labs, eq(labs.id, datasets.labId))
     .where(eq(records.id, id))
-  if (!row || !canSeeVersion(viewer, row.dataset.labId, row.version.state) || (row.version.state === 'withdrawn')
-    || (isUnderEmbargo(row.version) && !(viewer && (viewer.role === 'admin' || viewer.labIds.includes(row.dataset.labId))))) {
+  if (
+    !row
+    || !canSeeVersion(viewer, row.dataset.labId, row.version.state)
+    || row.version.state === 'withdrawn'
+    || (isUnderEmbargo(row.version) && !(viewer && (viewer.role === 'admin' || viewer.labIds.includes(row.dataset.labId))))
+  ) {
     throw httpError(404, MESSAGES.notFound)
   }
   return row
@@ -140,15 +235,38 @@ export async function getRecord (viewer: Viewer | null, id: number) {
 export async function archiveOverview () {
   const db = await useDb()
   const pubIds = currentPublishedVersionIds()
-  const [c] = await db.select({
-    labs: sql<number>`(select count(*) from lab)`,
-    datasets: sql<number>`(select count(distinct dataset_id) from dataset_version where state = 'published')`,
-    records: sql<number>`(select count(*) from rate_record where version_id in ${pubIds})`
-  }).from(labs).limit(1)
-  const latest = await db.select({ datasetId: versions.datasetId, versionNumber: versions.versionNumber, title: versions.title, doi: versions.doi, publishedAt: versions.publishedAt, recordCount: versions.recordCount, labName: labs.name })
-    .from(versions).innerJoin(datasets, eq(versions.datasetId, datasets.id)).innerJoin(labs, eq(labs.id, datasets.labId))
-    .where(eq(versions.state, 'published')).orderBy(desc(versions.publishedAt)).limit(6)
-  const points = await db.select({ deltaG: records.deltaG, log10Rate: records.log10Rate, process: records.process, rateKind: records.rateKind })
-    .from(records).where(and(sql`${records.versionId} in ${pubIds}`, sql`${records.deltaG} is not null`))
+  const [c] = await db
+    .select({
+      labs: sql<number>`(select count(*) from lab)`,
+      datasets: sql<number>`(select count(distinct dataset_id) from dataset_version where state = 'published')`,
+      records: sql<number>`(select count(*) from rate_record where version_id in ${pubIds})`
+    })
+    .from(labs)
+    .limit(1)
+  const latest = await db
+    .select({
+      datasetId: versions.datasetId,
+      versionNumber: versions.versionNumber,
+      title: versions.title,
+      doi: versions.doi,
+      publishedAt: versions.publishedAt,
+      recordCount: versions.recordCount,
+      labName: labs.name
+    })
+    .from(versions)
+    .innerJoin(datasets, eq(versions.datasetId, datasets.id))
+    .innerJoin(labs, eq(labs.id, datasets.labId))
+    .where(eq(versions.state, 'published'))
+    .orderBy(desc(versions.publishedAt))
+    .limit(6)
+  const points = await db
+    .select({
+      deltaG: records.deltaG,
+      log10Rate: records.log10Rate,
+      process: records.process,
+      rateKind: records.rateKind
+    })
+    .from(records)
+    .where(and(sql`${records.versionId} in ${pubIds}`, sql`${records.deltaG} is not null`))
   return { counts: c ?? { labs: 0, datasets: 0, records: 0 }, latest, points }
 }

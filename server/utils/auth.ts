@@ -26,7 +26,10 @@ export interface Viewer {
 
 /** E-mail addresses are compared in one form everywhere: trimmed, Unicode NFC, lower case. */
 export function normalizeEmail (email: unknown): string {
-  return String(email ?? '').normalize('NFC').trim().toLowerCase()
+  return String(email ?? '')
+    .normalize('NFC')
+    .trim()
+    .toLowerCase()
 }
 
 /**
@@ -38,7 +41,7 @@ export async function verifyPassword (email: string, password: string) {
   await slowAfterFailures(key)
   const db = await useDb()
   const [u] = await db.select().from(schema.users).where(eq(schema.users.email, key))
-  const ok = !!u?.passwordHash && !!u.emailVerified && await verify(u.passwordHash, password).catch(() => false)
+  const ok = !!u?.passwordHash && !!u.emailVerified && (await verify(u.passwordHash, password).catch(() => false))
   recordFailure(key, ok)
   return ok ? u! : null
 }
@@ -49,7 +52,8 @@ export async function signInWithLink (token: string) {
   if (!t) return null
   const db = await useDb()
   const [u] = await db.select().from(schema.users).where(eq(schema.users.email, t.email))
-  if (u && !u.emailVerified) await db.update(schema.users).set({ emailVerified: new Date() }).where(eq(schema.users.id, u.id))
+  if (u && !u.emailVerified)
+    await db.update(schema.users).set({ emailVerified: new Date() }).where(eq(schema.users.id, u.id))
   return u ?? null
 }
 
@@ -62,7 +66,10 @@ async function loadViewer (userId: string): Promise<Viewer | null> {
   const db = await useDb()
   const [u] = await db.select().from(schema.users).where(eq(schema.users.id, userId))
   if (!u) return null
-  const labs = await db.select({ labId: schema.labMemberships.labId }).from(schema.labMemberships).where(eq(schema.labMemberships.userId, u.id))
+  const labs = await db
+    .select({ labId: schema.labMemberships.labId })
+    .from(schema.labMemberships)
+    .where(eq(schema.labMemberships.userId, u.id))
   return { id: u.id, name: u.name, email: u.email, role: u.role, labIds: labs.map(l => l.labId) }
 }
 
@@ -73,7 +80,9 @@ export async function getViewer (event: H3Event): Promise<Viewer | null> {
   const authz = getHeader(event, 'authorization')
   if (authz?.startsWith('Bearer ')) {
     const db = await useDb()
-    const [t] = await db.select().from(schema.apiTokens)
+    const [t] = await db
+      .select()
+      .from(schema.apiTokens)
       .where(and(eq(schema.apiTokens.tokenHash, hashToken(authz.slice(7).trim())), isNull(schema.apiTokens.revokedAt)))
     if (!t) throw httpError(401, 'The API token is not valid or has been revoked')
     await db.update(schema.apiTokens).set({ lastUsedAt: new Date() }).where(eq(schema.apiTokens.id, t.id))
@@ -81,8 +90,8 @@ export async function getViewer (event: H3Event): Promise<Viewer | null> {
   }
   else {
     // the token itself (no session round trip), and only while the session stands
-    const token = await getToken({ event }).catch(() => null) as SessionClaims | null
-    if (token && typeof token.uid === 'string' && await sessionStands(token)) viewer = await loadViewer(token.uid)
+    const token = (await getToken({ event }).catch(() => null)) as SessionClaims | null
+    if (token && typeof token.uid === 'string' && (await sessionStands(token))) viewer = await loadViewer(token.uid)
   }
   event.context.viewer = viewer
   return viewer
@@ -99,7 +108,10 @@ export async function requireLabLead (event: H3Event, labId: number): Promise<Vi
   const v = await requireUser(event)
   if (v.role === 'admin') return v
   const db = await useDb()
-  const [m] = await db.select().from(schema.labMemberships).where(and(eq(schema.labMemberships.labId, labId), eq(schema.labMemberships.userId, v.id)))
+  const [m] = await db
+    .select()
+    .from(schema.labMemberships)
+    .where(and(eq(schema.labMemberships.labId, labId), eq(schema.labMemberships.userId, v.id)))
   if (!m) throw httpError(404, MESSAGES.notFound)
   if (!m.isLead) throw httpError(403, 'Only the lab\'s lead (or an admin) can do this')
   return v

@@ -10,13 +10,16 @@ import { createClient } from '@libsql/client'
 import { assertIntact } from './db'
 
 export function resolveFileUrl (url: string): string {
-  if (!url.startsWith('file:')) throw new Error('Backups cover the embedded SQLite file; a libSQL server is backed up by its own tooling')
+  if (!url.startsWith('file:'))
+    throw new Error('Backups cover the embedded SQLite file; a libSQL server is backed up by its own tooling')
   const raw = url.slice(5)
   return isAbsolute(raw) ? raw : resolve(process.cwd(), raw)
 }
 
 async function sha256File (path: string): Promise<string> {
-  return createHash('sha256').update(await readFile(path)).digest('hex')
+  return createHash('sha256')
+    .update(await readFile(path))
+    .digest('hex')
 }
 
 async function listFiles (dir: string): Promise<string[]> {
@@ -32,7 +35,13 @@ async function listFiles (dir: string): Promise<string[]> {
   return out
 }
 
-export interface BackupResult { folder: string, files: number, bytes: number, records: number, publishedVersions: number }
+export interface BackupResult {
+  folder: string
+  files: number
+  bytes: number
+  records: number
+  publishedVersions: number
+}
 
 export async function backup (opts: { databaseUrl: string, dataDir: string, backupDir: string }): Promise<BackupResult> {
   const stamp = new Date().toISOString().replace(/[:.]/g, '-')
@@ -43,12 +52,17 @@ export async function backup (opts: { databaseUrl: string, dataDir: string, back
     await db.execute({ sql: 'VACUUM INTO ?', args: [join(folder, 'crosspoint.db')] })
     // counted in the copy, not the live database (which may have moved on since)
     const copy = createClient({ url: `file:${join(folder, 'crosspoint.db')}` })
-    let records: number; let publishedVersions: number
+    let records: number
+    let publishedVersions: number
     try {
       records = Number((await copy.execute('select count(*) n from rate_record')).rows[0]!.n)
-      publishedVersions = Number((await copy.execute('select count(*) n from dataset_version where state = \'published\'')).rows[0]!.n)
+      publishedVersions = Number(
+        (await copy.execute('select count(*) n from dataset_version where state = \'published\'')).rows[0]!.n
+      )
     }
-    finally { copy.close() }
+    finally {
+      copy.close()
+    }
     const uploadsDir = join(resolve(opts.dataDir), 'uploads')
     for (const f of await listFiles(uploadsDir)) {
       const dest = join(folder, 'files', 'uploads', relative(uploadsDir, f))
@@ -58,46 +72,71 @@ export async function backup (opts: { databaseUrl: string, dataDir: string, back
     const all = (await listFiles(folder)).filter(f => !f.endsWith('SHA256SUMS'))
     const lines: string[] = []
     let bytes = 0
-    for (const f of all.sort()) { lines.push(`${await sha256File(f)}  ${relative(folder, f)}`); bytes += (await stat(f)).size }
-    await writeFile(join(folder, 'backup.json'), JSON.stringify({ createdAt: new Date().toISOString(), records, publishedVersions, files: all.length }, null, 2))
+    for (const f of all.sort()) {
+      lines.push(`${await sha256File(f)}  ${relative(folder, f)}`)
+      bytes += (await stat(f)).size
+    }
+    await writeFile(
+      join(folder, 'backup.json'),
+      JSON.stringify({ createdAt: new Date().toISOString(), records, publishedVersions, files: all.length }, null, 2)
+    )
     lines.push(`${await sha256File(join(folder, 'backup.json'))}  backup.json`)
     await writeFile(join(folder, 'SHA256SUMS'), lines.join('\n') + '\n')
     return { folder, files: all.length + 1, bytes, records, publishedVersions }
   }
-  finally { db.close() }
+  finally {
+    db.close()
+  }
 }
 
 /** Checks every checksum and the copied database's integrity; throws with the first problem. */
 export async function verifyBackup (folder: string): Promise<void> {
-  const sums = await readFile(join(folder, 'SHA256SUMS'), 'utf8').catch(() => { throw new Error(`${folder} has no SHA256SUMS: not a Crosspoint backup`) })
+  const sums = await readFile(join(folder, 'SHA256SUMS'), 'utf8').catch(() => {
+    throw new Error(`${folder} has no SHA256SUMS: not a Crosspoint backup`)
+  })
   for (const line of sums.trim().split('\n')) {
     const [hash, path] = line.split(/\s+/)
     const p = join(folder, path!)
     if (relative(folder, p).startsWith('..')) throw new Error(`SHA256SUMS names a path outside the backup: ${path}`)
     const actual = await sha256File(p).catch(() => 'missing')
-    if (actual !== hash) throw new Error(`Checksum mismatch for ${path} (${actual === 'missing' ? 'file missing' : 'content changed'}); this backup cannot be trusted`)
+    if (actual !== hash)
+      throw new Error(
+        `Checksum mismatch for ${path} (${actual === 'missing' ? 'file missing' : 'content changed'}); this backup cannot be trusted`
+      )
   }
   const db = createClient({ url: `file:${join(folder, 'crosspoint.db')}` })
-  try { await assertIntact(db, join(folder, 'crosspoint.db')) }
-  finally { db.close() }
+  try {
+    await assertIntact(db, join(folder, 'crosspoint.db'))
+  }
+  finally {
+    db.close()
+  }
 }
 
 // ── servers using a database file ─────────────────────────────────────────────────────────
 /** A running server marks the database it uses with `<file>.server-<pid>` (removed when it exits). */
-export function serverMarkPath (dbPath: string): string { return `${dbPath}.server-${process.pid}` }
+export function serverMarkPath (dbPath: string): string {
+  return `${dbPath}.server-${process.pid}`
+}
 
 /** Process ids of live servers that have marked this database (stale marks of dead processes are removed). */
 export async function liveServers (dbPath: string): Promise<number[]> {
-  const dir = dirname(dbPath); const prefix = `${basename(dbPath)}.server-`
+  const dir = dirname(dbPath)
+  const prefix = `${basename(dbPath)}.server-`
   const live: number[] = []
   for (const name of await readdir(dir).catch(() => [] as string[])) {
     if (!name.startsWith(prefix)) continue
     const pid = Number(name.slice(prefix.length))
     if (!Number.isInteger(pid) || pid <= 0) continue
     let alive = true
-    try { process.kill(pid, 0) }
-    catch (e) { alive = (e as NodeJS.ErrnoException).code === 'EPERM' }
-    if (alive) live.push(pid); else await rm(join(dir, name), { force: true })
+    try {
+      process.kill(pid, 0)
+    }
+    catch (e) {
+      alive = (e as NodeJS.ErrnoException).code === 'EPERM'
+    }
+    if (alive) live.push(pid)
+    else await rm(join(dir, name), { force: true })
   }
   return live
 }
@@ -107,18 +146,34 @@ export async function liveServers (dbPath: string): Promise<number[]> {
  * lost). The current database is checkpointed first (its WAL folded in) and kept beside, with any -wal
  * and -shm files, so nothing committed is lost.
  */
-export async function restore (opts: { folder: string, databaseUrl: string, dataDir: string }): Promise<{ kept: string }> {
+export async function restore (opts: {
+  folder: string
+  databaseUrl: string
+  dataDir: string
+}): Promise<{ kept: string }> {
   await verifyBackup(opts.folder)
   const target = resolveFileUrl(opts.databaseUrl)
   const servers = await liveServers(target)
-  if (servers.length) throw new Error(`a Crosspoint server (process ${servers.join(', ')}) is using ${target}; stop it, then restore`)
+  if (servers.length)
+    throw new Error(`a Crosspoint server (process ${servers.join(', ')}) is using ${target}; stop it, then restore`)
   const kept = `${target}.before-restore-${Date.now()}`
   await mkdir(dirname(target), { recursive: true })
-  if (await stat(target).then(() => true, () => false)) {
+  if (
+    await stat(target).then(
+      () => true,
+      () => false
+    )
+  ) {
     const db = createClient({ url: `file:${target}` })
-    try { await db.execute('PRAGMA wal_checkpoint(TRUNCATE)') }
-    catch { /* not a WAL database, or damaged: kept as it is */ }
-    finally { db.close() }
+    try {
+      await db.execute('PRAGMA wal_checkpoint(TRUNCATE)')
+    }
+    catch {
+      /* not a WAL database, or damaged: kept as it is */
+    }
+    finally {
+      db.close()
+    }
     await rename(target, kept)
   }
   for (const ext of ['-wal', '-shm']) await rename(target + ext, kept + ext).catch(() => {})

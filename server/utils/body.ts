@@ -21,12 +21,18 @@ const RAW_BODY = Symbol.for('h3RawBody')
 function closeAfterAnswer (event: H3Event): void {
   const req = event.node.req
   req.resume()
-  event.node.res.once('finish', () => { setTimeout(() => { if (!req.complete) req.destroy() }, 2000).unref() })
+  event.node.res.once('finish', () => {
+    setTimeout(() => {
+      if (!req.complete) req.destroy()
+    }, 2000).unref()
+  })
 }
 
 export function tooLarge (event: H3Event, limit: number, what = 'Request bodies'): never {
   closeAfterAnswer(event)
-  throw httpError(413, `${what} are limited to ${limit >= 1048576 ? `${limit / 1048576} MB` : `${limit / 1024} kB`}`, [{ path: '/', message: 'too large' }])
+  throw httpError(413, `${what} are limited to ${limit >= 1048576 ? `${limit / 1048576} MB` : `${limit / 1024} kB`}`, [
+    { path: '/', message: 'too large' }
+  ])
 }
 
 /**
@@ -65,18 +71,30 @@ export async function readCappedBody (event: H3Event, limit: number): Promise<Bu
 
 /** Deepest nesting of a JSON text (strings skipped), in one pass. */
 export function jsonDepth (text: string): number {
-  let depth = 0; let max = 0; let inString = false
+  let depth = 0
+  let max = 0
+  let inString = false
   for (let i = 0; i < text.length; i++) {
     const c = text.charCodeAt(i)
-    if (inString) { if (c === 92) i++; else if (c === 34) inString = false; continue }
+    if (inString) {
+      if (c === 92) i++
+      else if (c === 34) inString = false
+      continue
+    }
     if (c === 34) inString = true
-    else if (c === 123 || c === 91) { if (++depth > max) max = depth }
+    else if (c === 123 || c === 91) {
+      if (++depth > max) max = depth
+    }
     else if (c === 125 || c === 93) depth--
   }
   return max
 }
 
-export interface UploadedFile { filename: string, type: string, data: Uint8Array }
+export interface UploadedFile {
+  filename: string
+  type: string
+  data: Uint8Array
+}
 
 /**
  * The one file of a multipart upload (field "file"), streamed through busboy: at most one file of
@@ -85,35 +103,88 @@ export interface UploadedFile { filename: string, type: string, data: Uint8Array
 export async function readUploadedFile (event: H3Event, maxBytes: number): Promise<UploadedFile> {
   const req = event.node.req
   const type = req.headers['content-type'] ?? ''
-  if (!type.toLowerCase().startsWith('multipart/form-data')) throw httpError(415, 'Send the file as multipart/form-data with the field "file"', [{ path: '/file', message: 'not multipart/form-data' }])
+  if (!type.toLowerCase().startsWith('multipart/form-data'))
+    throw httpError(415, 'Send the file as multipart/form-data with the field "file"', [
+      { path: '/file', message: 'not multipart/form-data' }
+    ])
   let bb: Busboy.Busboy
   try {
-    bb = Busboy({ headers: req.headers, preservePath: true, limits: { fileSize: maxBytes, files: 1, fields: 8, parts: 10, fieldSize: 4096, headerPairs: 20 } })
+    bb = Busboy({
+      headers: req.headers,
+      preservePath: true,
+      limits: { fileSize: maxBytes, files: 1, fields: 8, parts: 10, fieldSize: 4096, headerPairs: 20 }
+    })
   }
-  catch { throw httpError(400, 'The multipart body is malformed', [{ path: '/file', message: 'bad multipart header' }]) }
+  catch {
+    throw httpError(400, 'The multipart body is malformed', [{ path: '/file', message: 'bad multipart header' }])
+  }
   const result = await new Promise<UploadedFile | 'too-large' | 'too-many' | null>((resolve, reject) => {
     let file: UploadedFile | null = null
     let settled = false
-    const done = (v: UploadedFile | 'too-large' | 'too-many' | null) => { if (!settled) { settled = true; resolve(v) } }
+    const done = (v: UploadedFile | 'too-large' | 'too-many' | null) => {
+      if (!settled) {
+        settled = true
+        resolve(v)
+      }
+    }
     bb.on('file', (name, stream, info) => {
-      if (name !== 'file') { stream.resume(); return }
+      if (name !== 'file') {
+        stream.resume()
+        return
+      }
       const chunks: Buffer[] = []
       let size = 0
-      stream.on('data', (c: Buffer) => { size += c.length; chunks.push(c) })
-      stream.on('limit', () => { chunks.length = 0; req.unpipe(bb); done('too-large') })
-      stream.on('end', () => { if (!settled) file = { filename: info.filename ?? 'upload', type: info.mimeType ?? '', data: new Uint8Array(Buffer.concat(chunks, size)) } })
+      stream.on('data', (c: Buffer) => {
+        size += c.length
+        chunks.push(c)
+      })
+      stream.on('limit', () => {
+        chunks.length = 0
+        req.unpipe(bb)
+        done('too-large')
+      })
+      stream.on('end', () => {
+        if (!settled)
+          file = {
+            filename: info.filename ?? 'upload',
+            type: info.mimeType ?? '',
+            data: new Uint8Array(Buffer.concat(chunks, size))
+          }
+      })
     })
-    bb.on('filesLimit', () => { req.unpipe(bb); done('too-many') })
-    bb.on('partsLimit', () => { req.unpipe(bb); done('too-many') })
-    bb.on('fieldsLimit', () => { req.unpipe(bb); done('too-many') })
+    bb.on('filesLimit', () => {
+      req.unpipe(bb)
+      done('too-many')
+    })
+    bb.on('partsLimit', () => {
+      req.unpipe(bb)
+      done('too-many')
+    })
+    bb.on('fieldsLimit', () => {
+      req.unpipe(bb)
+      done('too-many')
+    })
     bb.on('close', () => done(file))
-    bb.on('error', (e: Error) => { if (!settled) { settled = true; reject(e) } })
+    bb.on('error', (e: Error) => {
+      if (!settled) {
+        settled = true
+        reject(e)
+      }
+    })
     req.on('aborted', () => done(null))
     req.pipe(bb)
-  }).catch(() => { throw httpError(400, 'The multipart body is malformed', [{ path: '/file', message: 'malformed multipart body' }]) })
+  }).catch(() => {
+    throw httpError(400, 'The multipart body is malformed', [{ path: '/file', message: 'malformed multipart body' }])
+  })
   if (result === 'too-large') tooLarge(event, maxBytes, 'Uploaded files')
-  if (result === 'too-many') { closeAfterAnswer(event); throw httpError(413, 'Send one file (field "file") and nothing else', [{ path: '/file', message: 'too many parts' }]) }
-  if (!result || !result.filename) throw httpError(422, 'Send the file as multipart form field "file"', [{ path: '/file', message: 'is required' }])
+  if (result === 'too-many') {
+    closeAfterAnswer(event)
+    throw httpError(413, 'Send one file (field "file") and nothing else', [
+      { path: '/file', message: 'too many parts' }
+    ])
+  }
+  if (!result || !result.filename)
+    throw httpError(422, 'Send the file as multipart form field "file"', [{ path: '/file', message: 'is required' }])
   return result
 }
 
@@ -127,9 +198,20 @@ export async function discardBody (event: H3Event, limit: number): Promise<void>
   await new Promise<void>((resolve) => {
     let size = 0
     const timer = setTimeout(() => resolve(), 5000)
-    const stop = () => { clearTimeout(timer); resolve() }
-    req.on('data', (c: Buffer) => { size += c.length; if (size > limit) { req.destroy(); stop() } })
-    req.once('end', stop); req.once('error', stop); req.once('close', stop)
+    const stop = () => {
+      clearTimeout(timer)
+      resolve()
+    }
+    req.on('data', (c: Buffer) => {
+      size += c.length
+      if (size > limit) {
+        req.destroy()
+        stop()
+      }
+    })
+    req.once('end', stop)
+    req.once('error', stop)
+    req.once('close', stop)
     req.resume()
   })
 }

@@ -27,17 +27,42 @@ export interface CitableVersion {
 export const PUBLISHER = 'Crosspoint'
 
 /** A stored dataset version (plus its dataset's concept DOI and lab) in the shape every format takes. */
-export function toCitable (v: { datasetId: number, versionNumber: number, title: string, description: string, metadata: unknown, license: string, doi: string | null, publishedAt: Date | null }, conceptDoi: string | null, labName: string): CitableVersion {
+export function toCitable (
+  v: {
+    datasetId: number
+    versionNumber: number
+    title: string
+    description: string
+    metadata: unknown
+    license: string
+    doi: string | null
+    publishedAt: Date | null
+  },
+  conceptDoi: string | null,
+  labName: string
+): CitableVersion {
   return {
-    datasetId: v.datasetId, versionNumber: v.versionNumber, title: v.title, description: v.description, metadata: v.metadata as DatasetMetadataV1,
-    license: v.license, doi: v.doi, conceptDoi, publishedAt: v.publishedAt, labName, landingUrl: publicUrl(`/datasets/${v.datasetId}?version=${v.versionNumber}`)
+    datasetId: v.datasetId,
+    versionNumber: v.versionNumber,
+    title: v.title,
+    description: v.description,
+    metadata: v.metadata as DatasetMetadataV1,
+    license: v.license,
+    doi: v.doi,
+    conceptDoi,
+    publishedAt: v.publishedAt,
+    labName,
+    landingUrl: publicUrl(`/datasets/${v.datasetId}?version=${v.versionNumber}`)
   }
 }
 export const CITATION_FORMATS = ['bibtex', 'ris', 'csl-json', 'datacite-json', 'cff'] as const
-export type CitationFormat = typeof CITATION_FORMATS[number]
+export type CitationFormat = (typeof CITATION_FORMATS)[number]
 
 function splitName (c: Creator): { family: string, given: string } {
-  if (c.name.includes(',')) { const [f, g] = c.name.split(','); return { family: f!.trim(), given: (g ?? '').trim() } }
+  if (c.name.includes(',')) {
+    const [f, g] = c.name.split(',')
+    return { family: f!.trim(), given: (g ?? '').trim() }
+  }
   const parts = c.name.trim().split(/\s+/)
   return parts.length > 1 ? { family: parts.pop()!, given: parts.join(' ') } : { family: parts[0] ?? '', given: '' }
 }
@@ -55,65 +80,123 @@ export function dataciteJson (v: CitableVersion) {
         types: { resourceTypeGeneral: 'Dataset', resourceType: 'Electron-transfer rate records' },
         titles: [{ title: v.title }],
         creators: m.creators.map(c => ({
-          name: c.name, nameType: 'Personal', familyName: splitName(c).family, givenName: splitName(c).given,
-          nameIdentifiers: c.orcid ? [{ nameIdentifier: `https://orcid.org/${c.orcid}`, nameIdentifierScheme: 'ORCID', schemeUri: 'https://orcid.org' }] : [],
-          affiliation: c.affiliation ? [{ name: c.affiliation, ...(c.rorId ? { affiliationIdentifier: c.rorId, affiliationIdentifierScheme: 'ROR' } : {}) }] : []
+          name: c.name,
+          nameType: 'Personal',
+          familyName: splitName(c).family,
+          givenName: splitName(c).given,
+          nameIdentifiers: c.orcid
+            ? [
+                {
+                  nameIdentifier: `https://orcid.org/${c.orcid}`,
+                  nameIdentifierScheme: 'ORCID',
+                  schemeUri: 'https://orcid.org'
+                }
+              ]
+            : [],
+          affiliation: c.affiliation
+            ? [
+                {
+                  name: c.affiliation,
+                  ...(c.rorId ? { affiliationIdentifier: c.rorId, affiliationIdentifierScheme: 'ROR' } : {})
+                }
+              ]
+            : []
         })),
         publisher: { name: PUBLISHER },
         publicationYear: year(v),
         version: String(v.versionNumber),
         descriptions: v.description ? [{ description: v.description, descriptionType: 'Abstract' }] : [],
         subjects: (m.keywords ?? []).map(k => ({ subject: k })),
-        rightsList: [{ rightsIdentifier: v.license, rightsIdentifierScheme: 'SPDX', schemeUri: 'https://spdx.org/licenses/' }],
-        relatedIdentifiers: [
-          ...(m.relatedIdentifiers ?? []).map(r => ({ relatedIdentifier: r.identifier, relatedIdentifierType: r.identifierType, relationType: r.relationType })),
-          ...(v.conceptDoi ? [{ relatedIdentifier: v.conceptDoi, relatedIdentifierType: 'DOI', relationType: 'IsVersionOf' }] : [])
+        rightsList: [
+          { rightsIdentifier: v.license, rightsIdentifierScheme: 'SPDX', schemeUri: 'https://spdx.org/licenses/' }
         ],
-        fundingReferences: (m.funding ?? []).map(f => ({ funderName: f.funderName, ...(f.awardNumber ? { awardNumber: f.awardNumber } : {}) }))
+        relatedIdentifiers: [
+          ...(m.relatedIdentifiers ?? []).map(r => ({
+            relatedIdentifier: r.identifier,
+            relatedIdentifierType: r.identifierType,
+            relationType: r.relationType
+          })),
+          ...(v.conceptDoi
+            ? [{ relatedIdentifier: v.conceptDoi, relatedIdentifierType: 'DOI', relationType: 'IsVersionOf' }]
+            : [])
+        ],
+        fundingReferences: (m.funding ?? []).map(f => ({
+          funderName: f.funderName,
+          ...(f.awardNumber ? { awardNumber: f.awardNumber } : {})
+        }))
       }
     }
   }
 }
 
 export function cslJson (v: CitableVersion) {
-  return [{
-    id: `crosspoint-${v.datasetId}-v${v.versionNumber}`,
-    type: 'dataset',
-    title: v.title,
-    author: v.metadata.creators.map(splitName),
-    issued: { 'date-parts': [[year(v)]] },
-    publisher: PUBLISHER,
-    version: String(v.versionNumber),
-    ...(v.doi ? { DOI: v.doi, URL: doiUrl(v.doi) } : { URL: v.landingUrl }),
-    abstract: v.description || undefined,
-    license: v.license
-  }]
+  return [
+    {
+      id: `crosspoint-${v.datasetId}-v${v.versionNumber}`,
+      type: 'dataset',
+      title: v.title,
+      author: v.metadata.creators.map(splitName),
+      issued: { 'date-parts': [[year(v)]] },
+      publisher: PUBLISHER,
+      version: String(v.versionNumber),
+      ...(v.doi ? { DOI: v.doi, URL: doiUrl(v.doi) } : { URL: v.landingUrl }),
+      abstract: v.description || undefined,
+      license: v.license
+    }
+  ]
 }
 
 /** Escapes BibTeX specials; braces keep the title's capitals. */
 function bib (s: string): string {
-  return s.replace(/\\/g, '\\textbackslash{}').replace(/([{}&%$#_])/g, '\\$1').replace(/~/g, '\\textasciitilde{}').replace(/\^/g, '\\textasciicircum{}')
+  return s
+    .replace(/\\/g, '\\textbackslash{}')
+    .replace(/([{}&%$#_])/g, '\\$1')
+    .replace(/~/g, '\\textasciitilde{}')
+    .replace(/\^/g, '\\textasciicircum{}')
 }
 
 export function bibtex (v: CitableVersion): string {
   const key = `crosspoint_${v.datasetId}_v${v.versionNumber}`
   const fields: [string, string][] = [
-    ['author', v.metadata.creators.map((c) => { const n = splitName(c); return n.given ? `${bib(n.family)}, ${bib(n.given)}` : bib(n.family) }).join(' and ')],
+    [
+      'author',
+      v.metadata.creators
+        .map((c) => {
+          const n = splitName(c)
+          return n.given ? `${bib(n.family)}, ${bib(n.given)}` : bib(n.family)
+        })
+        .join(' and ')
+    ],
     ['title', `{${bib(v.title)}}`],
     ['year', String(year(v))],
     ['publisher', PUBLISHER],
     ['version', String(v.versionNumber)],
-    ...(v.doi ? [['doi', v.doi], ['url', doiUrl(v.doi)]] as [string, string][] : [['url', v.landingUrl]] as [string, string][]),
+    ...(v.doi
+      ? ([
+          ['doi', v.doi],
+          ['url', doiUrl(v.doi)]
+        ] as [string, string][])
+      : ([['url', v.landingUrl]] as [string, string][])),
     ['note', `Licence: ${v.license}`]
   ]
   return `@misc{${key},\n${fields.map(([k, val]) => `  ${k} = {${val}}`).join(',\n')}\n}\n`
 }
 
 export function ris (v: CitableVersion): string {
-  const lines = ['TY  - DATA', ...v.metadata.creators.map((c) => { const n = splitName(c); return `AU  - ${n.given ? `${n.family}, ${n.given}` : n.family}` }),
-    `TI  - ${v.title}`, `PY  - ${year(v)}`, `PB  - ${PUBLISHER}`, `ET  - ${v.versionNumber}`,
+  const lines = [
+    'TY  - DATA',
+    ...v.metadata.creators.map((c) => {
+      const n = splitName(c)
+      return `AU  - ${n.given ? `${n.family}, ${n.given}` : n.family}`
+    }),
+    `TI  - ${v.title}`,
+    `PY  - ${year(v)}`,
+    `PB  - ${PUBLISHER}`,
+    `ET  - ${v.versionNumber}`,
     ...(v.doi ? [`DO  - ${v.doi}`, `UR  - ${doiUrl(v.doi)}`] : [`UR  - ${v.landingUrl}`]),
-    ...(v.metadata.keywords ?? []).map(k => `KW  - ${k}`), `N1  - Licence: ${v.license}`]
+    ...(v.metadata.keywords ?? []).map(k => `KW  - ${k}`),
+    `N1  - Licence: ${v.license}`
+  ]
   // each tag one line, whatever was stored: a line break in a value cannot open another record
   return [...lines.map(oneLine), 'ER  - '].join('\r\n') + '\r\n'
 }
@@ -130,7 +213,12 @@ export function cffDoc (v: CitableVersion): Record<string, unknown> {
     'title': v.title,
     'authors': v.metadata.creators.map((c) => {
       const n = splitName(c)
-      return { 'family-names': n.family, ...(n.given ? { 'given-names': n.given } : {}), ...(c.orcid ? { orcid: `https://orcid.org/${c.orcid}` } : {}), ...(c.affiliation ? { affiliation: c.affiliation } : {}) }
+      return {
+        'family-names': n.family,
+        ...(n.given ? { 'given-names': n.given } : {}),
+        ...(c.orcid ? { orcid: `https://orcid.org/${c.orcid}` } : {}),
+        ...(c.affiliation ? { affiliation: c.affiliation } : {})
+      }
     }),
     'version': String(v.versionNumber),
     ...(v.doi ? { doi: v.doi } : {}),
@@ -139,7 +227,9 @@ export function cffDoc (v: CitableVersion): Record<string, unknown> {
     'url': v.landingUrl,
     ...(v.metadata.keywords?.length ? { keywords: v.metadata.keywords } : {}),
     ...(v.description ? { abstract: v.description } : {}),
-    ...(v.conceptDoi ? { identifiers: [{ type: 'doi', value: v.conceptDoi, description: 'All versions of this dataset' }] } : {})
+    ...(v.conceptDoi
+      ? { identifiers: [{ type: 'doi', value: v.conceptDoi, description: 'All versions of this dataset' }] }
+      : {})
   }
   return doc
 }
@@ -151,7 +241,9 @@ export function selectionCff (cited: CitableVersion[], title: string, url: strin
     return ref
   })
   const licences = [...new Set(cited.map(c => c.license))]
-  const authors = [...new Map(refs.flatMap(r => r.authors as Record<string, string>[]).map(a => [JSON.stringify(a), a])).values()]
+  const authors = [
+    ...new Map(refs.flatMap(r => r.authors as Record<string, string>[]).map(a => [JSON.stringify(a), a])).values()
+  ]
   return toYaml({
     'cff-version': '1.2.0',
     'message': 'This is a selection of published records. Cite each dataset listed under references.',
@@ -178,7 +270,12 @@ export function jsonLd (v: CitableVersion) {
     'license': `https://spdx.org/licenses/${v.license}.html`,
     'datePublished': v.publishedAt?.toISOString().slice(0, 10),
     'keywords': v.metadata.keywords,
-    'creator': v.metadata.creators.map(c => ({ '@type': 'Person', 'name': c.name, ...(c.orcid ? { '@id': `https://orcid.org/${c.orcid}` } : {}), ...(c.affiliation ? { affiliation: { '@type': 'Organization', 'name': c.affiliation } } : {}) })),
+    'creator': v.metadata.creators.map(c => ({
+      '@type': 'Person',
+      'name': c.name,
+      ...(c.orcid ? { '@id': `https://orcid.org/${c.orcid}` } : {}),
+      ...(c.affiliation ? { affiliation: { '@type': 'Organization', 'name': c.affiliation } } : {})
+    })),
     'publisher': { '@type': 'Organization', 'name': PUBLISHER },
     'isAccessibleForFree': true
   }
@@ -186,10 +283,23 @@ export function jsonLd (v: CitableVersion) {
 
 export function renderCitation (v: CitableVersion, format: CitationFormat): { body: string, type: string, ext: string } {
   switch (format) {
-    case 'bibtex': return { body: bibtex(v), type: 'application/x-bibtex; charset=utf-8', ext: 'bib' }
-    case 'ris': return { body: ris(v), type: 'application/x-research-info-systems; charset=utf-8', ext: 'ris' }
-    case 'csl-json': return { body: JSON.stringify(cslJson(v), null, 2), type: 'application/vnd.citationstyles.csl+json; charset=utf-8', ext: 'json' }
-    case 'datacite-json': return { body: JSON.stringify(dataciteJson(v), null, 2), type: 'application/vnd.api+json; charset=utf-8', ext: 'json' }
-    case 'cff': return { body: cff(v), type: 'application/x-yaml; charset=utf-8', ext: 'cff' }
+    case 'bibtex':
+      return { body: bibtex(v), type: 'application/x-bibtex; charset=utf-8', ext: 'bib' }
+    case 'ris':
+      return { body: ris(v), type: 'application/x-research-info-systems; charset=utf-8', ext: 'ris' }
+    case 'csl-json':
+      return {
+        body: JSON.stringify(cslJson(v), null, 2),
+        type: 'application/vnd.citationstyles.csl+json; charset=utf-8',
+        ext: 'json'
+      }
+    case 'datacite-json':
+      return {
+        body: JSON.stringify(dataciteJson(v), null, 2),
+        type: 'application/vnd.api+json; charset=utf-8',
+        ext: 'json'
+      }
+    case 'cff':
+      return { body: cff(v), type: 'application/x-yaml; charset=utf-8', ext: 'cff' }
   }
 }

@@ -11,25 +11,39 @@ import type { H3Event } from 'h3'
 /** Records per page of the dataset and version routes: pages, with the total, never a silent cut. */
 export const MAX_RECORD_PAGE = 10_000
 const DETAIL_QUERY = {
-  type: 'object', additionalProperties: false,
+  type: 'object',
+  additionalProperties: false,
   properties: {
     records: { enum: ['full', 'summary'] },
     page: { type: 'integer', minimum: 1, maximum: 1_000_000 },
     pageSize: { type: 'integer', minimum: 1, maximum: MAX_RECORD_PAGE }
   }
 }
-export interface RecordQuery { detail?: RecordDetail, page: number, pageSize: number }
+export interface RecordQuery {
+  detail?: RecordDetail
+  page: number
+  pageSize: number
+}
 /** The `records`, `page` and `pageSize` query parameters of the dataset and version routes (422 naming a bad one). */
 export function recordDetailOf (event: H3Event): RecordQuery {
-  const q = queryValidated<{ records?: RecordDetail, page?: number, pageSize?: number }>(event, DETAIL_QUERY, coerceNumbers(['page', 'pageSize']))
+  const q = queryValidated<{ records?: RecordDetail, page?: number, pageSize?: number }>(
+    event,
+    DETAIL_QUERY,
+    coerceNumbers(['page', 'pageSize'])
+  )
   return { detail: q.records, page: q.page ?? 1, pageSize: q.pageSize ?? MAX_RECORD_PAGE }
 }
 
 /** A published (or withdrawn) version in the shape the citation formats take. */
-export async function citableVersion (viewer: Viewer | null, id: number, versionNumber?: number): Promise<CitableVersion> {
+export async function citableVersion (
+  viewer: Viewer | null,
+  id: number,
+  versionNumber?: number
+): Promise<CitableVersion> {
   const { dataset, lab, versions } = await getDataset(viewer, id)
   const citable = versions.filter(v => v.doi && (v.state === 'published' || v.state === 'withdrawn'))
-  const v = versionNumber === undefined ? citable[citable.length - 1] : citable.find(x => x.versionNumber === versionNumber)
+  const v
+    = versionNumber === undefined ? citable[citable.length - 1] : citable.find(x => x.versionNumber === versionNumber)
   if (!v) throw httpError(404, 'No published version to cite')
   return toCitable(v, dataset.conceptDoi, lab.name)
 }
@@ -37,15 +51,29 @@ export async function citableVersion (viewer: Viewer | null, id: number, version
 /** The newest review's comments, for the lab that must answer them. */
 async function reviewNotes (versionId: number) {
   const db = await useDb()
-  const [rev] = await db.select().from(schema.reviews).where(eq(schema.reviews.versionId, versionId)).orderBy(desc(schema.reviews.id)).limit(1)
+  const [rev] = await db
+    .select()
+    .from(schema.reviews)
+    .where(eq(schema.reviews.versionId, versionId))
+    .orderBy(desc(schema.reviews.id))
+    .limit(1)
   if (!rev) return null
-  const comments = await db.select({ recordId: schema.recordComments.recordId, body: schema.recordComments.body }).from(schema.recordComments).where(eq(schema.recordComments.reviewId, rev.id))
+  const comments = await db
+    .select({ recordId: schema.recordComments.recordId, body: schema.recordComments.body })
+    .from(schema.recordComments)
+    .where(eq(schema.recordComments.reviewId, rev.id))
   return { decision: rev.decision, comment: rev.comment, at: rev.createdAt, comments }
 }
 
-export async function datasetView (viewer: Viewer | null, id: number, versionNumber?: number, rq: RecordQuery = { page: 1, pageSize: MAX_RECORD_PAGE }) {
+export async function datasetView (
+  viewer: Viewer | null,
+  id: number,
+  versionNumber?: number,
+  rq: RecordQuery = { page: 1, pageSize: MAX_RECORD_PAGE }
+) {
   const { dataset, lab, versions } = await getDataset(viewer, id)
-  const version = versionNumber === undefined ? defaultVersion(versions) : versions.find(v => v.versionNumber === versionNumber)
+  const version
+    = versionNumber === undefined ? defaultVersion(versions) : versions.find(v => v.versionNumber === versionNumber)
   if (!version) throw httpError(404, MESSAGES.notFound)
   const isMember = !!viewer && (viewer.role === 'admin' || viewer.labIds.includes(dataset.labId))
   const embargoed = isUnderEmbargo(version) && !isMember
@@ -55,20 +83,46 @@ export async function datasetView (viewer: Viewer | null, id: number, versionNum
     conceptDoi: dataset.conceptDoi,
     isDemo: dataset.isDemo,
     lab: { id: lab.id, name: lab.name, institution: lab.institution },
-    canEdit: isMember && ['draft', 'returned'].includes(version.state) && version.versionNumber === Math.max(...versions.map(v => v.versionNumber)),
+    canEdit:
+      isMember
+      && ['draft', 'returned'].includes(version.state)
+      && version.versionNumber === Math.max(...versions.map(v => v.versionNumber)),
     canStartVersion: isMember && versions[versions.length - 1]!.state === 'published',
     canSeeAudit: !!viewer && (isMember || viewer.role !== 'contributor'),
     version: {
-      versionNumber: version.versionNumber, state: version.state, title: version.title, description: version.description,
-      metadata: version.metadata, license: version.license, doi: version.doi, embargoUntil: version.embargoUntil,
-      recordCount: version.recordCount, submittedAt: version.submittedAt, publishedAt: version.publishedAt,
-      withdrawnAt: version.withdrawnAt, withdrawalReason: version.withdrawalReason, updatedAt: version.updatedAt
+      versionNumber: version.versionNumber,
+      state: version.state,
+      title: version.title,
+      description: version.description,
+      metadata: version.metadata,
+      license: version.license,
+      doi: version.doi,
+      embargoUntil: version.embargoUntil,
+      recordCount: version.recordCount,
+      submittedAt: version.submittedAt,
+      publishedAt: version.publishedAt,
+      withdrawnAt: version.withdrawnAt,
+      withdrawalReason: version.withdrawalReason,
+      updatedAt: version.updatedAt
     },
-    versions: versions.map(v => ({ versionNumber: v.versionNumber, state: v.state, doi: v.doi, publishedAt: v.publishedAt, recordCount: v.recordCount })),
-    records: hideRecords ? [] : await versionRecords(version.id, { offset: (rq.page - 1) * rq.pageSize, limit: rq.pageSize }, rq.detail ?? 'full'),
+    versions: versions.map(v => ({
+      versionNumber: v.versionNumber,
+      state: v.state,
+      doi: v.doi,
+      publishedAt: v.publishedAt,
+      recordCount: v.recordCount
+    })),
+    records: hideRecords
+      ? []
+      : await versionRecords(
+          version.id,
+          { offset: (rq.page - 1) * rq.pageSize, limit: rq.pageSize },
+          rq.detail ?? 'full'
+        ),
     recordPage: { page: rq.page, pageSize: rq.pageSize, total: hideRecords ? 0 : version.recordCount },
     review: isMember ? await reviewNotes(version.id) : null,
-    jsonLd: version.doi && version.state === 'published' ? jsonLd(toCitable(version, dataset.conceptDoi, lab.name)) : null,
+    jsonLd:
+      version.doi && version.state === 'published' ? jsonLd(toCitable(version, dataset.conceptDoi, lab.name)) : null,
     recordsHidden: hideRecords ? (version.state === 'withdrawn' ? 'withdrawn' : 'embargo') : null
   }
 }

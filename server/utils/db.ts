@@ -26,9 +26,14 @@ export function findMigrationsFolder (): string {
   ]
   // Walk up from this module (inside .output/server/chunks/… once built).
   let dir = dirname(fileURLToPath(import.meta.url))
-  for (let i = 0; i < 6; i++) { candidates.push(resolve(dir, 'drizzle')); dir = dirname(dir) }
+  for (let i = 0; i < 6; i++) {
+    candidates.push(resolve(dir, 'drizzle'))
+    dir = dirname(dir)
+  }
   for (const c of candidates) if (c && existsSync(resolve(c, 'meta/_journal.json'))) return c
-  throw new Error('Crosspoint cannot find its database migrations (drizzle/meta/_journal.json); set NUXT_MIGRATIONS_DIR')
+  throw new Error(
+    'Crosspoint cannot find its database migrations (drizzle/meta/_journal.json); set NUXT_MIGRATIONS_DIR'
+  )
 }
 
 /** For a file: URL, make sure the folder exists and is writable, with a message that says what to fix. */
@@ -44,7 +49,10 @@ function prepareFileDatabase (url: string): string {
   }
   catch (e) {
     const code = (e as NodeJS.ErrnoException).code ?? 'error'
-    throw new Error(`Crosspoint cannot use the database file ${path} (${code}): make its folder exist and be writable, or set NUXT_DATABASE_URL`, { cause: e })
+    throw new Error(
+      `Crosspoint cannot use the database file ${path} (${code}): make its folder exist and be writable, or set NUXT_DATABASE_URL`,
+      { cause: e }
+    )
   }
   return `file:${path}`
 }
@@ -56,10 +64,14 @@ export async function assertIntact (client: Client, url: string): Promise<void> 
     const rows = (await client.execute('PRAGMA integrity_check')).rows
     verdict = rows.map(r => String(Object.values(r)[0])).join('; ')
   }
-  catch (e) { verdict = (e as Error).message }
+  catch (e) {
+    verdict = (e as Error).message
+  }
   if (verdict !== 'ok') {
     client.close()
-    throw new Error(`The database ${url} is damaged (integrity check: ${verdict.slice(0, 300)}). Crosspoint will not serve it; restore the newest backup with npm run restore`)
+    throw new Error(
+      `The database ${url} is damaged (integrity check: ${verdict.slice(0, 300)}). Crosspoint will not serve it; restore the newest backup with npm run restore`
+    )
   }
 }
 
@@ -85,7 +97,10 @@ function databaseConfig (): { url: string, authToken: string } {
     return { url: rc.databaseUrl, authToken: rc.databaseAuthToken }
   }
   catch {
-    return { url: process.env.NUXT_DATABASE_URL ?? 'file:./data/crosspoint.db', authToken: process.env.NUXT_DATABASE_AUTH_TOKEN ?? '' }
+    return {
+      url: process.env.NUXT_DATABASE_URL ?? 'file:./data/crosspoint.db',
+      authToken: process.env.NUXT_DATABASE_AUTH_TOKEN ?? ''
+    }
   }
 }
 
@@ -99,7 +114,9 @@ export async function useDb (): Promise<Db> {
       await applyDataMigrations(opened.db)
       return opened
     })
-    ready.catch(() => { ready = undefined })
+    ready.catch(() => {
+      ready = undefined
+    })
   }
   return (await ready).db
 }

@@ -16,13 +16,23 @@ const { rateRecords: records, datasetVersions: versions, datasets, labs, dataMig
 /** Re-derives the records of the given versions in one transaction; returns how many changed. */
 async function rederiveVersions (tx: Tx | Db, versionIds: number[]): Promise<{ changed: number, ids: number[] }> {
   if (!versionIds.length) return { changed: 0, ids: [] }
-  const rows = await tx.select({ id: records.id, data: records.data }).from(records)
-    .where(and(inArray(records.versionId, versionIds), sql`json_extract(${records.data}, '$.drivingForce.method') = 'redox-potentials'`))
+  const rows = await tx
+    .select({ id: records.id, data: records.data })
+    .from(records)
+    .where(
+      and(
+        inArray(records.versionId, versionIds),
+        sql`json_extract(${records.data}, '$.drivingForce.method') = 'redox-potentials'`
+      )
+    )
   const ids: number[] = []
   for (const row of rows) {
     const r = rederive(row.data as unknown as RateRecordV1)
     if (!r) continue
-    await tx.update(records).set({ data: r.record as unknown as Record<string, unknown>, ...recordColumns(r.record), updatedAt: new Date() }).where(eq(records.id, row.id))
+    await tx
+      .update(records)
+      .set({ data: r.record as unknown as Record<string, unknown>, ...recordColumns(r.record), updatedAt: new Date() })
+      .where(eq(records.id, row.id))
     ids.push(row.id)
   }
   return { changed: ids.length, ids }
@@ -36,19 +46,41 @@ export const REDERIVE_MIGRATION = '2026-12-driving-force-by-process'
  * flagged by the review check, a published one appears in the curators' report).
  */
 export async function applyDataMigrations (db: Db): Promise<void> {
-  const done = await db.select({ name: dataMigrations.name }).from(dataMigrations).where(eq(dataMigrations.name, REDERIVE_MIGRATION))
+  const done = await db
+    .select({ name: dataMigrations.name })
+    .from(dataMigrations)
+    .where(eq(dataMigrations.name, REDERIVE_MIGRATION))
   if (done.length) return
   await db.transaction(async (tx) => {
-    const editable = await tx.select({ id: versions.id, datasetId: versions.datasetId }).from(versions).where(inArray(versions.state, ['draft', 'returned']))
-    const res = await rederiveVersions(tx, editable.map(v => v.id))
+    const editable = await tx
+      .select({ id: versions.id, datasetId: versions.datasetId })
+      .from(versions)
+      .where(inArray(versions.state, ['draft', 'returned']))
+    const res = await rederiveVersions(
+      tx,
+      editable.map(v => v.id)
+    )
     if (res.changed) {
-      const byVersion = await tx.select({ versionId: records.versionId, n: sql<number>`count(*)` }).from(records).where(inArray(records.id, res.ids)).groupBy(records.versionId)
+      const byVersion = await tx
+        .select({ versionId: records.versionId, n: sql<number>`count(*)` })
+        .from(records)
+        .where(inArray(records.id, res.ids))
+        .groupBy(records.versionId)
       for (const v of byVersion) {
         const datasetId = editable.find(e => e.id === v.versionId)!.datasetId
-        await audit(null, 'dataset.rederived', 'dataset', datasetId, { records: v.n, rule: 'ΔG° from potentials by process', migration: REDERIVE_MIGRATION }, tx)
+        await audit(
+          null,
+          'dataset.rederived',
+          'dataset',
+          datasetId,
+          { records: v.n, rule: 'ΔG° from potentials by process', migration: REDERIVE_MIGRATION },
+          tx
+        )
       }
     }
-    await tx.insert(dataMigrations).values({ name: REDERIVE_MIGRATION, appliedAt: new Date(), detail: { records: res.changed } })
+    await tx
+      .insert(dataMigrations)
+      .values({ name: REDERIVE_MIGRATION, appliedAt: new Date(), detail: { records: res.changed } })
   })
 }
 
@@ -66,24 +98,62 @@ export interface DerivationReportItem {
 
 /** Published (current) versions holding records whose stored ΔG° differs from the derivation for their process. */
 export async function derivationReport (db: Db): Promise<DerivationReportItem[]> {
-  const rows = await db.select({
-    id: records.id, position: records.position, data: records.data, datasetId: versions.datasetId, versionNumber: versions.versionNumber,
-    doi: versions.doi, title: versions.title, labName: labs.name
-  }).from(records)
-    .innerJoin(versions, eq(versions.id, records.versionId)).innerJoin(datasets, eq(datasets.id, versions.datasetId)).innerJoin(labs, eq(labs.id, datasets.labId))
-    .where(and(sql`${versions.id} in ${currentPublishedVersionIds()}`, sql`json_extract(${records.data}, '$.drivingForce.method') = 'redox-potentials'`))
+  const rows = await db
+    .select({
+      id: records.id,
+      position: records.position,
+      data: records.data,
+      datasetId: versions.datasetId,
+      versionNumber: versions.versionNumber,
+      doi: versions.doi,
+      title: versions.title,
+      labName: labs.name
+    })
+    .from(records)
+    .innerJoin(versions, eq(versions.id, records.versionId))
+    .innerJoin(datasets, eq(datasets.id, versions.datasetId))
+    .innerJoin(labs, eq(labs.id, datasets.labId))
+    .where(
+      and(
+        sql`${versions.id} in ${currentPublishedVersionIds()}`,
+        sql`json_extract(${records.data}, '$.drivingForce.method') = 'redox-potentials'`
+      )
+    )
   const out = new Map<number, DerivationReportItem>()
   for (const row of rows) {
     const r = rederive(row.data as unknown as RateRecordV1)
     if (!r) continue
     let item = out.get(row.datasetId)
-    if (!item) { item = { datasetId: row.datasetId, title: row.title, labName: row.labName, versionNumber: row.versionNumber, doi: row.doi, differing: 0, newerVersion: null, examples: [] }; out.set(row.datasetId, item) }
+    if (!item) {
+      item = {
+        datasetId: row.datasetId,
+        title: row.title,
+        labName: row.labName,
+        versionNumber: row.versionNumber,
+        doi: row.doi,
+        differing: 0,
+        newerVersion: null,
+        examples: []
+      }
+      out.set(row.datasetId, item)
+    }
     item.differing++
-    if (item.examples.length < 5) item.examples.push({ recordId: row.id, position: row.position, process: (row.data as { process: string }).process, stored: r.stored, derived: r.derived })
+    if (item.examples.length < 5)
+      item.examples.push({
+        recordId: row.id,
+        position: row.position,
+        process: (row.data as { process: string }).process,
+        stored: r.stored,
+        derived: r.derived
+      })
   }
   if (out.size) {
-    const newer = await db.select({ datasetId: versions.datasetId, versionNumber: versions.versionNumber, state: versions.state }).from(versions)
-      .where(and(inArray(versions.datasetId, [...out.keys()]), inArray(versions.state, ['draft', 'submitted', 'returned'])))
+    const newer = await db
+      .select({ datasetId: versions.datasetId, versionNumber: versions.versionNumber, state: versions.state })
+      .from(versions)
+      .where(
+        and(inArray(versions.datasetId, [...out.keys()]), inArray(versions.state, ['draft', 'submitted', 'returned']))
+      )
     for (const n of newer) {
       const item = out.get(n.datasetId)!
       if (n.versionNumber > item.versionNumber) item.newerVersion = { versionNumber: n.versionNumber, state: n.state }

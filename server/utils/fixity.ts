@@ -6,8 +6,12 @@ import { useDb, schema } from './db'
 
 export function dataDirectory (): string {
   let d = './data'
-  try { d = useRuntimeConfig().dataDir }
-  catch { d = process.env.NUXT_DATA_DIR ?? d }
+  try {
+    d = useRuntimeConfig().dataDir
+  }
+  catch {
+    d = process.env.NUXT_DATA_DIR ?? d
+  }
   return resolve(process.cwd(), d)
 }
 
@@ -17,9 +21,18 @@ export async function checkFixity () {
   const problems: { id: number, name: string, storageKey: string, problem: string }[] = []
   for (const f of files) {
     const buf = await readFile(join(dataDirectory(), f.storageKey)).catch(() => null)
-    if (!buf) { problems.push({ id: f.id, name: f.name, storageKey: f.storageKey, problem: 'missing' }); continue }
+    if (!buf) {
+      problems.push({ id: f.id, name: f.name, storageKey: f.storageKey, problem: 'missing' })
+      continue
+    }
     const sha = createHash('sha256').update(buf).digest('hex')
-    if (sha !== f.sha256 || buf.byteLength !== f.size) problems.push({ id: f.id, name: f.name, storageKey: f.storageKey, problem: `changed: sha256 ${sha.slice(0, 12)}… (recorded ${f.sha256.slice(0, 12)}…)` })
+    if (sha !== f.sha256 || buf.byteLength !== f.size)
+      problems.push({
+        id: f.id,
+        name: f.name,
+        storageKey: f.storageKey,
+        problem: `changed: sha256 ${sha.slice(0, 12)}… (recorded ${f.sha256.slice(0, 12)}…)`
+      })
   }
   return { checkedAt: new Date().toISOString(), files: files.length, problems }
 }

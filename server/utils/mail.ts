@@ -12,11 +12,17 @@ let transport: Promise<Transporter> | undefined
 let sinkReceived = 0
 
 /** Messages the local sink has accepted since start (0 when a real SMTP server is configured). */
-export function sinkCount (): number { return sinkReceived }
+export function sinkCount (): number {
+  return sinkReceived
+}
 
 function smtpUrl (): string {
-  try { return useRuntimeConfig().smtpUrl }
-  catch { return process.env.NUXT_SMTP_URL ?? '' }
+  try {
+    return useRuntimeConfig().smtpUrl
+  }
+  catch {
+    return process.env.NUXT_SMTP_URL ?? ''
+  }
 }
 
 async function startSink (): Promise<number> {
@@ -27,7 +33,10 @@ async function startSink (): Promise<number> {
     logger: false,
     onData (stream, _session, done) {
       stream.on('data', () => {})
-      stream.on('end', () => { sinkReceived++; done() })
+      stream.on('end', () => {
+        sinkReceived++
+        done()
+      })
     }
   })
   return new Promise((resolve, reject) => {
@@ -44,7 +53,9 @@ async function useTransport (): Promise<Transporter> {
       const port = await startSink()
       return createTransport({ host: '127.0.0.1', port, secure: false, ignoreTLS: true })
     })()
-    transport.catch(() => { transport = undefined })
+    transport.catch(() => {
+      transport = undefined
+    })
   }
   return transport
 }
@@ -58,17 +69,27 @@ export async function sendMail (to: string, subject: string, text: string): Prom
   try {
     const t = await useTransport()
     await t.sendMail({ from: MAIL_FROM, to, subject, text })
-    await db.update(schema.mailOutbox).set({ status: 'sent', sentAt: new Date() }).where(eq(schema.mailOutbox.id, row!.id))
+    await db
+      .update(schema.mailOutbox)
+      .set({ status: 'sent', sentAt: new Date() })
+      .where(eq(schema.mailOutbox.id, row!.id))
   }
   catch (e) {
-    await db.update(schema.mailOutbox).set({ status: 'failed', error: (e as Error).message }).where(eq(schema.mailOutbox.id, row!.id))
+    await db
+      .update(schema.mailOutbox)
+      .set({ status: 'failed', error: (e as Error).message })
+      .where(eq(schema.mailOutbox.id, row!.id))
   }
   return row!.id
 }
 
 export function publicUrl (path: string): string {
   let base = 'http://localhost:3000'
-  try { base = useRuntimeConfig().public.baseUrl }
-  catch { /* outside Nitro */ }
+  try {
+    base = useRuntimeConfig().public.baseUrl
+  }
+  catch {
+    /* outside Nitro */
+  }
   return base.replace(/\/$/, '') + path
 }

@@ -29,7 +29,10 @@ export function limitRate (event: H3Event, key: string, limit: number, windowSec
   const now = Date.now()
   const full = `${key}|${clientAddress(event)}`
   let w = windows.get(full)
-  if (!w || now - w.start > windowSeconds * 1000) { w = { start: now, count: 0 }; windows.set(full, w, { ttl: windowSeconds * 1000 }) }
+  if (!w || now - w.start > windowSeconds * 1000) {
+    w = { start: now, count: 0 }
+    windows.set(full, w, { ttl: windowSeconds * 1000 })
+  }
   w.count++
   if (w.count > limit) {
     const retry = Math.max(1, Math.ceil((w.start + windowSeconds * 1000 - now) / 1000))
@@ -48,7 +51,10 @@ export async function slowAfterFailures (email: string): Promise<void> {
   if (delay) await new Promise(r => setTimeout(r, delay))
 }
 export function recordFailure (email: string, ok: boolean): void {
-  if (ok) { failures.delete(email); return }
+  if (ok) {
+    failures.delete(email)
+    return
+  }
   const f = failures.get(email)
   failures.set(email, { count: (f && Date.now() - f.last < FAILURE_MEMORY_MS ? f.count : 0) + 1, last: Date.now() })
 }

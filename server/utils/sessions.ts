@@ -10,9 +10,16 @@ import { useDb, schema } from './db'
 
 export const SESSION_MAX_AGE_S = 7 * 24 * 3600
 
-export interface SessionClaims { uid?: unknown, sid?: unknown, sv?: unknown, exp?: unknown }
+export interface SessionClaims {
+  uid?: unknown
+  sid?: unknown
+  sv?: unknown
+  exp?: unknown
+}
 
-export function newSessionId (): string { return randomUUID() }
+export function newSessionId (): string {
+  return randomUUID()
+}
 
 /** Whether a decoded session token still stands: its sid not ended, its version the user's current one. */
 export async function sessionStands (t: SessionClaims | null | undefined): Promise<boolean> {
@@ -20,7 +27,10 @@ export async function sessionStands (t: SessionClaims | null | undefined): Promi
   const db = await useDb()
   const [u] = await db.select({ sv: schema.users.sessionVersion }).from(schema.users).where(eq(schema.users.id, t.uid))
   if (!u || u.sv !== t.sv) return false
-  const [r] = await db.select({ sid: schema.revokedSessions.sid }).from(schema.revokedSessions).where(eq(schema.revokedSessions.sid, t.sid))
+  const [r] = await db
+    .select({ sid: schema.revokedSessions.sid })
+    .from(schema.revokedSessions)
+    .where(eq(schema.revokedSessions.sid, t.sid))
   return !r
 }
 
@@ -29,14 +39,20 @@ export async function endSession (t: SessionClaims | null | undefined): Promise<
   if (!t || typeof t.sid !== 'string') return
   const db = await useDb()
   const exp = typeof t.exp === 'number' ? t.exp * 1000 : Date.now() + SESSION_MAX_AGE_S * 1000
-  await db.insert(schema.revokedSessions).values({ sid: t.sid, expiresAt: new Date(exp) }).onConflictDoNothing()
+  await db
+    .insert(schema.revokedSessions)
+    .values({ sid: t.sid, expiresAt: new Date(exp) })
+    .onConflictDoNothing()
   await db.delete(schema.revokedSessions).where(lt(schema.revokedSessions.expiresAt, new Date()))
 }
 
 /** Ends every session of a user (sign out everywhere, password reset, role change). */
 export async function endAllSessions (userId: string): Promise<void> {
   const db = await useDb()
-  await db.update(schema.users).set({ sessionVersion: sql`${schema.users.sessionVersion} + 1`, updatedAt: new Date() }).where(eq(schema.users.id, userId))
+  await db
+    .update(schema.users)
+    .set({ sessionVersion: sql`${schema.users.sessionVersion} + 1`, updatedAt: new Date() })
+    .where(eq(schema.users.id, userId))
 }
 
 export async function sessionVersionOf (userId: string): Promise<number> {

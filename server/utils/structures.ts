@@ -17,7 +17,9 @@ export function useRDKit (): Promise<RDKit> {
     // The wasm file sits beside the loader in node_modules, in development and in the built server.
     const wasm = createRequire(import.meta.url).resolve('@rdkit/rdkit/RDKit_minimal.wasm')
     rdkit = initRDKitModule({ locateFile: () => wasm })
-    rdkit.catch(() => { rdkit = undefined })
+    rdkit.catch(() => {
+      rdkit = undefined
+    })
   }
   return rdkit
 }
@@ -37,7 +39,15 @@ export interface Structure {
 
 /** Reads one SMILES with RDKit; a SMILES it cannot parse comes back with `error` set. */
 export function computeStructure (rd: RDKit, smiles: string): Structure {
-  const failed = (error: string): Structure => ({ smiles, canonicalSmiles: null, inchi: null, inchiKey: null, svg: null, morganFp: null, error })
+  const failed = (error: string): Structure => ({
+    smiles,
+    canonicalSmiles: null,
+    inchi: null,
+    inchiKey: null,
+    svg: null,
+    morganFp: null,
+    error
+  })
   if (!smiles.trim() || smiles.length > 2000) return failed('empty or longer than 2000 characters')
   const mol = rd.get_mol(smiles)
   if (!mol) return failed('RDKit could not read this SMILES (check brackets, ring-closure digits and element symbols)')
@@ -86,7 +96,10 @@ export async function structuresFor (smilesList: Iterable<string>): Promise<Map<
   if (!wanted.length) return out
   const db = await useDb()
   for (let i = 0; i < wanted.length; i += CHUNK) {
-    const rows = await db.select().from(schema.structures).where(inArray(schema.structures.smiles, wanted.slice(i, i + CHUNK)))
+    const rows = await db
+      .select()
+      .from(schema.structures)
+      .where(inArray(schema.structures.smiles, wanted.slice(i, i + CHUNK)))
     for (const r of rows) out.set(r.smiles, r)
   }
   const missing = wanted.filter(s => !out.has(s))
@@ -94,7 +107,10 @@ export async function structuresFor (smilesList: Iterable<string>): Promise<Map<
     const rd = await useRDKit()
     const fresh = missing.map(s => computeStructure(rd, s))
     for (let i = 0; i < fresh.length; i += CHUNK) {
-      await db.insert(schema.structures).values(fresh.slice(i, i + CHUNK).map(s => ({ ...s, toolkit: `${TOOLKIT_LABEL} ${rd.version()}` }))).onConflictDoNothing()
+      await db
+        .insert(schema.structures)
+        .values(fresh.slice(i, i + CHUNK).map(s => ({ ...s, toolkit: `${TOOLKIT_LABEL} ${rd.version()}` })))
+        .onConflictDoNothing()
     }
     for (const s of fresh) out.set(s.smiles, s)
   }
@@ -113,7 +129,16 @@ export async function fingerprintsFor (smilesList: Iterable<string>): Promise<Ma
  * cannot read, and one where a given InChIKey disagrees with the structure. `at(i)` says where
  * record i came from (row of a file, or position in a request).
  */
-export async function structureIssues (records: { system: { donor: { smiles?: string, inchiKey?: string }, acceptor: { smiles?: string, inchiKey?: string }, bridge?: { smiles?: string, inchiKey?: string } } }[], at: (i: number) => { path: string, row?: number }) {
+export async function structureIssues (
+  records: {
+    system: {
+      donor: { smiles?: string, inchiKey?: string }
+      acceptor: { smiles?: string, inchiKey?: string }
+      bridge?: { smiles?: string, inchiKey?: string }
+    }
+  }[],
+  at: (i: number) => { path: string, row?: number }
+) {
   const species = ['donor', 'acceptor', 'bridge'] as const
   const all = records.flatMap(r => species.map(k => r.system[k]?.smiles).filter((s): s is string => !!s))
   if (!all.length) return { errors: [], warnings: [] }
@@ -127,9 +152,22 @@ export async function structureIssues (records: { system: { donor: { smiles?: st
       if (!sp?.smiles) continue
       const st = known.get(sp.smiles)!
       const where = at(i)
-      const loc = { index: i, path: `${where.path}/system/${k}/smiles`, ...(where.row !== undefined ? { row: where.row, column: `${k}_smiles` } : {}) }
-      if (st.error) errors.push({ ...loc, message: `${k} SMILES "${sp.smiles.slice(0, 60)}" is not a valid structure: ${st.error}` })
-      else if (sp.inchiKey && st.inchiKey && sp.inchiKey !== st.inchiKey) warnings.push({ ...loc, path: `${where.path}/system/${k}/inchiKey`, message: `${k} InChIKey ${sp.inchiKey} does not match the SMILES (RDKit gives ${st.inchiKey})` })
+      const loc = {
+        index: i,
+        path: `${where.path}/system/${k}/smiles`,
+        ...(where.row !== undefined ? { row: where.row, column: `${k}_smiles` } : {})
+      }
+      if (st.error)
+        errors.push({
+          ...loc,
+          message: `${k} SMILES "${sp.smiles.slice(0, 60)}" is not a valid structure: ${st.error}`
+        })
+      else if (sp.inchiKey && st.inchiKey && sp.inchiKey !== st.inchiKey)
+        warnings.push({
+          ...loc,
+          path: `${where.path}/system/${k}/inchiKey`,
+          message: `${k} InChIKey ${sp.inchiKey} does not match the SMILES (RDKit gives ${st.inchiKey})`
+        })
     }
   })
   return { errors, warnings }

@@ -12,13 +12,22 @@ import { httpError, MESSAGES, type Issue } from './errors'
 import { parseDecimal } from '../../shared/records/ingest'
 
 // ajv and ajv-formats ship CommonJS; under ESM the constructor sits on `.default`.
-const Ajv2020 = ((Ajv2020Module as unknown as { default?: typeof Ajv2020Module }).default ?? Ajv2020Module) as typeof Ajv2020Module
-const addFormats = ((addFormatsModule as unknown as { default?: typeof addFormatsModule }).default ?? addFormatsModule) as typeof addFormatsModule
+const Ajv2020 = ((Ajv2020Module as unknown as { default?: typeof Ajv2020Module }).default
+  ?? Ajv2020Module) as typeof Ajv2020Module
+const addFormats = ((addFormatsModule as unknown as { default?: typeof addFormatsModule }).default
+  ?? addFormatsModule) as typeof addFormatsModule
 
 let ajvInstance: InstanceType<typeof Ajv2020> | undefined
 export function useAjv () {
   if (!ajvInstance) {
-    ajvInstance = new Ajv2020({ allErrors: true, verbose: true, strict: true, strictRequired: false, allowUnionTypes: true, coerceTypes: false })
+    ajvInstance = new Ajv2020({
+      allErrors: true,
+      verbose: true,
+      strict: true,
+      strictRequired: false,
+      allowUnionTypes: true,
+      coerceTypes: false
+    })
     addFormats(ajvInstance)
     ajvInstance.addSchema(rateRecordSchema as object)
     ajvInstance.addSchema(datasetSchema as object)
@@ -40,7 +49,10 @@ export function compile<T = unknown> (schema: object): ValidateFunction<T> {
   if (!v) {
     const key = JSON.stringify(schema)
     v = bySource.get(key)
-    if (!v) { v = useAjv().compile(schema); bySource.set(key, v) }
+    if (!v) {
+      v = useAjv().compile(schema)
+      bySource.set(key, v)
+    }
     compiled.set(schema, v)
   }
   return v as ValidateFunction<T>
@@ -56,13 +68,25 @@ export function ajvIssues (errors: ErrorObject[] | null | undefined, prefix = ''
   return (errors ?? []).map((e) => {
     let path = prefix + e.instancePath
     let message = e.message ?? 'is not valid'
-    if (e.keyword === 'required') { path += `/${(e.params as { missingProperty: string }).missingProperty}`; message = 'is required' }
-    if (e.keyword === 'additionalProperties') { path += `/${(e.params as { additionalProperty: string }).additionalProperty}`; message = 'is not a known field' }
-    if (e.keyword === 'enum') message = `must be one of: ${(e.params as { allowedValues: unknown[] }).allowedValues.join(', ')}`
+    if (e.keyword === 'required') {
+      path += `/${(e.params as { missingProperty: string }).missingProperty}`
+      message = 'is required'
+    }
+    if (e.keyword === 'additionalProperties') {
+      path += `/${(e.params as { additionalProperty: string }).additionalProperty}`
+      message = 'is not a known field'
+    }
+    if (e.keyword === 'enum')
+      message = `must be one of: ${(e.params as { allowedValues: unknown[] }).allowedValues.join(', ')}`
     if (['minimum', 'maximum', 'exclusiveMinimum', 'exclusiveMaximum'].includes(e.keyword)) {
       // a sentence with the field's own description (which states its unit and range), not ajv's "must be >= 1"
       const limit = (e.params as { limit: number }).limit
-      const words = { minimum: 'at least', maximum: 'at most', exclusiveMinimum: 'greater than', exclusiveMaximum: 'less than' }[e.keyword as 'minimum']
+      const words = {
+        minimum: 'at least',
+        maximum: 'at most',
+        exclusiveMinimum: 'greater than',
+        exclusiveMaximum: 'less than'
+      }[e.keyword as 'minimum']
       const desc = (e.parentSchema as { description?: string } | undefined)?.description
       message = `must be ${words} ${limit}${desc ? ` (${desc})` : ''}; got ${JSON.stringify(e.data)}`
     }
@@ -73,15 +97,23 @@ export function ajvIssues (errors: ErrorObject[] | null | undefined, prefix = ''
 /** Reads and validates a JSON body; 422 with every problem, or the typed body. */
 export async function readValidated<T> (event: H3Event, schema: object): Promise<T> {
   let body: unknown
-  try { body = await readBody(event) }
-  catch { throw httpError(400, 'The request body is not valid JSON') }
+  try {
+    body = await readBody(event)
+  }
+  catch {
+    throw httpError(400, 'The request body is not valid JSON')
+  }
   const validate = compile<T>(schema)
   if (!validate(body)) throw httpError(422, MESSAGES.invalidBody, ajvIssues(validate.errors))
   return body as T
 }
 
 /** Validates the query string (after the caller's coercion). */
-export function queryValidated<T> (event: H3Event, schema: object, coerce: (q: Record<string, unknown>) => Record<string, unknown>): T {
+export function queryValidated<T> (
+  event: H3Event,
+  schema: object,
+  coerce: (q: Record<string, unknown>) => Record<string, unknown>
+): T {
   const raw = coerce(getQuery(event) as Record<string, unknown>)
   const validate = compile<T>(schema)
   if (!validate(raw)) throw httpError(422, MESSAGES.invalidQuery, ajvIssues(validate.errors))

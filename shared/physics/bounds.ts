@@ -52,10 +52,18 @@ export function boundSchema (name: BoundedName, extra: Record<string, unknown> =
   }
 }
 
-function fmt (x: number): string { return Math.abs(x) < 1e-3 && x !== 0 ? x.toExponential(0) : String(x) }
+function fmt (x: number): string {
+  return Math.abs(x) < 1e-3 && x !== 0 ? x.toExponential(0) : String(x)
+}
 
 /** Adds an issue unless `value` is a finite number within the named bound. */
-export function checkBound (c: IssueCollector, value: unknown, name: BoundedName, path: string, label?: string): value is number {
+export function checkBound (
+  c: IssueCollector,
+  value: unknown,
+  name: BoundedName,
+  path: string,
+  label?: string
+): value is number {
   const b: Bound = MODEL_BOUNDS[name]
   const what = label ?? b.label
   if (!c.finite(value, path, what)) return false
@@ -71,6 +79,9 @@ export function checkBound (c: IssueCollector, value: unknown, name: BoundedName
 export function checkHuangRhys (c: IssueCollector, lambdaInternal: number, vibrationEnergy: number, path: string): void {
   const S = lambdaInternal / vibrationEnergy
   if (S > MAX_HUANG_RHYS) {
-    c.add(path, `Huang–Rhys factor S = λ_i/ħω = ${S.toPrecision(4)} is above ${MAX_HUANG_RHYS}: raise ħω or lower λ_i (a mode that soft is not a quantum mode)`)
+    c.add(
+      path,
+      `Huang–Rhys factor S = λ_i/ħω = ${S.toPrecision(4)} is above ${MAX_HUANG_RHYS}: raise ħω or lower λ_i (a mode that soft is not a quantum mode)`
+    )
   }
 }

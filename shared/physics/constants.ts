@@ -33,9 +33,9 @@ export const KJ_PER_MOL_PER_EV = (ELEMENTARY_CHARGE_C * AVOGADRO_PER_MOL) / 1000
 /** kcal/mol (thermochemical) in one eV. */
 export const KCAL_PER_MOL_PER_EV = KJ_PER_MOL_PER_EV / THERMOCHEMICAL_CALORIE_J
 /** h c in eV nm, for wavelength ↔ photon energy. */
-export const HC_EV_NM = (PLANCK_J_S * SPEED_OF_LIGHT_M_S) / ELEMENTARY_CHARGE_C * 1e9
+export const HC_EV_NM = ((PLANCK_J_S * SPEED_OF_LIGHT_M_S) / ELEMENTARY_CHARGE_C) * 1e9
 /** Coulomb energy constant e²/(4πε₀) in eV Å. */
-export const COULOMB_EV_ANGSTROM = ELEMENTARY_CHARGE_C / (4 * Math.PI * VACUUM_PERMITTIVITY_F_PER_M) * 1e10
+export const COULOMB_EV_ANGSTROM = (ELEMENTARY_CHARGE_C / (4 * Math.PI * VACUUM_PERMITTIVITY_F_PER_M)) * 1e10
 
 export const LN10 = Math.LN10
 

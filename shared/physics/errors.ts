@@ -21,7 +21,10 @@ export class PhysicsInputError extends Error {
 /** Collects issues while checking a set of inputs, then throws them all at once. */
 export class IssueCollector {
   readonly issues: InputIssue[] = []
-  add (path: string, message: string): void { this.issues.push({ path, message }) }
+  add (path: string, message: string): void {
+    this.issues.push({ path, message })
+  }
+
   /** A finite number, or an issue. */
   finite (value: unknown, path: string, label: string): value is number {
     if (typeof value !== 'number' || !Number.isFinite(value)) {
@@ -34,14 +37,20 @@ export class IssueCollector {
   /** A finite number > 0, or an issue. */
   positive (value: unknown, path: string, label: string): value is number {
     if (!this.finite(value, path, label)) return false
-    if ((value as number) <= 0) { this.add(path, `${label} must be greater than 0`); return false }
+    if ((value as number) <= 0) {
+      this.add(path, `${label} must be greater than 0`)
+      return false
+    }
     return true
   }
 
   /** A finite number ≥ 0, or an issue. */
   nonNegative (value: unknown, path: string, label: string): value is number {
     if (!this.finite(value, path, label)) return false
-    if ((value as number) < 0) { this.add(path, `${label} must not be negative`); return false }
+    if ((value as number) < 0) {
+      this.add(path, `${label} must not be negative`)
+      return false
+    }
     return true
   }
 

@@ -5,7 +5,13 @@
 import { solve, Matrix } from 'ml-matrix'
 import { chiSquared, model, type Problem } from './fit-problem'
 
-export interface Run { vec: number[], chi: number, iterations: number, status: 'converged' | 'stalled', active: boolean[] }
+export interface Run {
+  vec: number[]
+  chi: number
+  iterations: number
+  status: 'converged' | 'stalled'
+  active: boolean[]
+}
 
 /** Relative finite-difference step for each free parameter (the coupling is already on a log scale). */
 function stepFor (prob: Problem, vec: number[], j: number, rel: number): number {
@@ -16,7 +22,15 @@ function stepFor (prob: Problem, vec: number[], j: number, rel: number): number 
  * Jacobian of the weighted model, w_i ∂f_i/∂v_j, by finite differences that never leave the box:
  * central where both neighbours are inside, one-sided inward at a bound.
  */
-export function jacobian (prob: Problem, vec: number[], f0: Float64Array, central: boolean, J: Float64Array[], tmp: Float64Array, tmp2: Float64Array): number {
+export function jacobian (
+  prob: Problem,
+  vec: number[],
+  f0: Float64Array,
+  central: boolean,
+  J: Float64Array[],
+  tmp: Float64Array,
+  tmp2: Float64Array
+): number {
   let evals = 0
   for (let j = 0; j < vec.length; j++) {
     const h = stepFor(prob, vec, j, central ? 1e-5 : 1e-7)
@@ -24,15 +38,21 @@ export function jacobian (prob: Problem, vec: number[], f0: Float64Array, centra
     const dn = vec[j]! - h >= prob.lo[j]!
     const Jj = J[j]!
     if (central && up && dn) {
-      const a = vec.slice(); a[j] = vec[j]! + h; model(prob, a, tmp)
-      const b = vec.slice(); b[j] = vec[j]! - h; model(prob, b, tmp2)
-      for (let i = 0; i < prob.n; i++) Jj[i] = prob.w[i]! * (tmp[i]! - tmp2[i]!) / (2 * h)
+      const a = vec.slice()
+      a[j] = vec[j]! + h
+      model(prob, a, tmp)
+      const b = vec.slice()
+      b[j] = vec[j]! - h
+      model(prob, b, tmp2)
+      for (let i = 0; i < prob.n; i++) Jj[i] = (prob.w[i]! * (tmp[i]! - tmp2[i]!)) / (2 * h)
       evals += 2
     }
     else {
       const s = up ? h : -h
-      const a = vec.slice(); a[j] = vec[j]! + s; model(prob, a, tmp)
-      for (let i = 0; i < prob.n; i++) Jj[i] = prob.w[i]! * (tmp[i]! - f0[i]!) / s
+      const a = vec.slice()
+      a[j] = vec[j]! + s
+      model(prob, a, tmp)
+      for (let i = 0; i < prob.n; i++) Jj[i] = (prob.w[i]! * (tmp[i]! - f0[i]!)) / s
       evals++
     }
   }
@@ -44,9 +64,13 @@ const MAX_ITERATIONS = 300
 
 /** Bounded Levenberg–Marquardt from one start. */
 export function lmRun (prob: Problem, start: number[]): Run {
-  const k = start.length; const n = prob.n
+  const k = start.length
+  const n = prob.n
   let vec = start.slice()
-  const f = new Float64Array(n); const ft = new Float64Array(n); const tmp = new Float64Array(n); const tmp2 = new Float64Array(n)
+  const f = new Float64Array(n)
+  const ft = new Float64Array(n)
+  const tmp = new Float64Array(n)
+  const tmp2 = new Float64Array(n)
   const J = Array.from({ length: k }, () => new Float64Array(n))
   model(prob, vec, f)
   let chi = chiSquared(prob, f)
@@ -60,12 +84,20 @@ export function lmRun (prob: Problem, start: number[]): Run {
     for (let i = 0; i < n; i++) r[i] = (prob.y[i]! - f[i]!) * prob.w[i]!
     jacobian(prob, vec, f, false, J, tmp, tmp2)
     // normal equations A = JᵀJ, b = Jᵀr (b is minus half the gradient of χ²)
-    const A = Array.from({ length: k }, () => new Array<number>(k).fill(0)); const b = new Array<number>(k).fill(0)
+    const A = Array.from({ length: k }, () => new Array<number>(k).fill(0))
+    const b = new Array<number>(k).fill(0)
     for (let a = 0; a < k; a++) {
       const Ja = J[a]!
-      let s = 0; for (let i = 0; i < n; i++) s += Ja[i]! * r[i]!
+      let s = 0
+      for (let i = 0; i < n; i++) s += Ja[i]! * r[i]!
       b[a] = s
-      for (let c = a; c < k; c++) { const Jc = J[c]!; let t = 0; for (let i = 0; i < n; i++) t += Ja[i]! * Jc[i]!; A[a]![c] = t; A[c]![a] = t }
+      for (let c = a; c < k; c++) {
+        const Jc = J[c]!
+        let t = 0
+        for (let i = 0; i < n; i++) t += Ja[i]! * Jc[i]!
+        A[a]![c] = t
+        A[c]![a] = t
+      }
     }
     // active set: held at a bound by a gradient that points outward
     active = vec.map((v, j) => (v <= prob.lo[j]! && b[j]! < 0) || (v >= prob.hi[j]! && b[j]! > 0))
@@ -74,28 +106,41 @@ export function lmRun (prob: Problem, start: number[]): Run {
     const rn = Math.sqrt(chi)
     let cos = 0
     for (const j of freeIdx) cos = Math.max(cos, Math.abs(b[j]!) / (Math.sqrt(A[j]![j]!) * rn || 1))
-    if (chi <= 1e-26 * n || freeIdx.length === 0 || cos <= GTOL) { status = 'converged'; break }
+    if (chi <= 1e-26 * n || freeIdx.length === 0 || cos <= GTOL) {
+      status = 'converged'
+      break
+    }
     if (mu < 0) mu = 1e-3 * Math.max(...freeIdx.map(j => A[j]![j]!))
     let accepted = false
     for (let tries = 0; tries < 30; tries++) {
       const m = freeIdx.length
-      const M = new Matrix(m, m); const rhs = new Matrix(m, 1)
+      const M = new Matrix(m, m)
+      const rhs = new Matrix(m, 1)
       freeIdx.forEach((ja, a) => {
         freeIdx.forEach((jc, c) => M.set(a, c, A[ja]![jc]! + (a === c ? mu * Math.max(A[ja]![ja]!, 1e-12) : 0)))
         rhs.set(a, 0, b[ja]!)
       })
       let delta: Matrix
-      try { delta = solve(M, rhs) }
-      catch { mu *= 10; continue }
+      try {
+        delta = solve(M, rhs)
+      }
+      catch {
+        mu *= 10
+        continue
+      }
       const trial = vec.slice()
-      freeIdx.forEach((j, a) => { trial[j] = Math.min(Math.max(vec[j]! + delta.get(a, 0), prob.lo[j]!), prob.hi[j]!) })
+      freeIdx.forEach((j, a) => {
+        trial[j] = Math.min(Math.max(vec[j]! + delta.get(a, 0), prob.lo[j]!), prob.hi[j]!)
+      })
       model(prob, trial, ft)
       const tchi = chiSquared(prob, ft)
       if (Number.isFinite(tchi) && tchi < chi) {
         const dChi = chi - tchi
         let step = 0
         for (let j = 0; j < k; j++) step = Math.max(step, Math.abs(trial[j]! - vec[j]!) / (Math.abs(vec[j]!) + 1e-3))
-        vec = trial; chi = tchi; f.set(ft)
+        vec = trial
+        chi = tchi
+        f.set(ft)
         mu = Math.max(mu / 3, 1e-12)
         accepted = true
         // χ² and the step have stopped moving: take it as converged only if the gradient is also small
@@ -122,24 +167,44 @@ export function lmRun (prob: Problem, start: number[]): Run {
 }
 
 /** Largest gradient cosine over the columns not held at a bound, from a central-difference Jacobian. */
-function gradientCosine (prob: Problem, vec: number[], f: Float64Array, active: boolean[], J: Float64Array[], tmp: Float64Array, tmp2: Float64Array): number {
+function gradientCosine (
+  prob: Problem,
+  vec: number[],
+  f: Float64Array,
+  active: boolean[],
+  J: Float64Array[],
+  tmp: Float64Array,
+  tmp2: Float64Array
+): number {
   jacobian(prob, vec, f, true, J, tmp, tmp2)
   const chi = chiSquared(prob, f)
   let cos = 0
   for (let j = 0; j < vec.length; j++) {
     if (active[j]) continue
-    let b = 0; let a = 0
-    for (let i = 0; i < prob.n; i++) { b += J[j]![i]! * (prob.y[i]! - f[i]!) * prob.w[i]!; a += J[j]![i]! ** 2 }
+    let b = 0
+    let a = 0
+    for (let i = 0; i < prob.n; i++) {
+      b += J[j]![i]! * (prob.y[i]! - f[i]!) * prob.w[i]!
+      a += J[j]![i]! ** 2
+    }
     if (a > 0) cos = Math.max(cos, Math.abs(b) / Math.sqrt(a * chi || 1))
   }
   return cos
 }
 
 /** Which parameters sit at a bound with the gradient pushing outward. */
-function activeAt (prob: Problem, vec: number[], f: Float64Array, J: Float64Array[], tmp: Float64Array, tmp2: Float64Array): boolean[] {
+function activeAt (
+  prob: Problem,
+  vec: number[],
+  f: Float64Array,
+  J: Float64Array[],
+  tmp: Float64Array,
+  tmp2: Float64Array
+): boolean[] {
   jacobian(prob, vec, f, false, J, tmp, tmp2)
   return vec.map((v, j) => {
-    const atLo = v <= prob.lo[j]! + 1e-12 * Math.max(1, Math.abs(v)); const atHi = v >= prob.hi[j]! - 1e-12 * Math.max(1, Math.abs(v))
+    const atLo = v <= prob.lo[j]! + 1e-12 * Math.max(1, Math.abs(v))
+    const atHi = v >= prob.hi[j]! - 1e-12 * Math.max(1, Math.abs(v))
     if (!atLo && !atHi) return false
     let b = 0
     for (let i = 0; i < prob.n; i++) b += J[j]![i]! * (prob.y[i]! - f[i]!) * prob.w[i]!
@@ -151,9 +216,16 @@ function activeAt (prob: Problem, vec: number[], f: Float64Array, J: Float64Arra
  * Diagonal of (JᵀWJ)⁻¹ over the parameters that are neither held at a bound nor without effect
  * (central differences, inward at a bound); null entries where the reduced matrix is singular.
  */
-export function covariance (prob: Problem, vec: number[], active: boolean[]): { cov: number[] | null, noEffect: boolean[] } {
-  const n = prob.n; const k = vec.length
-  const f = new Float64Array(n); const tmp = new Float64Array(n); const tmp2 = new Float64Array(n)
+export function covariance (
+  prob: Problem,
+  vec: number[],
+  active: boolean[]
+): { cov: number[] | null, noEffect: boolean[] } {
+  const n = prob.n
+  const k = vec.length
+  const f = new Float64Array(n)
+  const tmp = new Float64Array(n)
+  const tmp2 = new Float64Array(n)
   model(prob, vec, f)
   const J = Array.from({ length: k }, () => new Float64Array(n))
   jacobian(prob, vec, f, true, J, tmp, tmp2)
@@ -164,10 +236,13 @@ export function covariance (prob: Problem, vec: number[], active: boolean[]): { 
   const out = new Array<number>(k).fill(NaN)
   if (!keep.length) return { cov: out, noEffect }
   const A = new Matrix(keep.length, keep.length)
-  keep.forEach((a, i) => keep.forEach((c, j) => {
-    let s = 0; for (let t = 0; t < n; t++) s += J[a]![t]! * J[c]![t]!
-    A.set(i, j, s)
-  }))
+  keep.forEach((a, i) =>
+    keep.forEach((c, j) => {
+      let s = 0
+      for (let t = 0; t < n; t++) s += J[a]![t]! * J[c]![t]!
+      A.set(i, j, s)
+    })
+  )
   // scale to unit diagonal before inverting so that the test for singularity is about correlation, not units
   const d = keep.map((_, i) => Math.sqrt(A.get(i, i)))
   const C = new Matrix(keep.length, keep.length)
@@ -180,6 +255,8 @@ export function covariance (prob: Problem, vec: number[], active: boolean[]): { 
       out[j] = v > 0 && v < 1e10 ? v / (d[i]! * d[i]!) : NaN
     })
   }
-  catch { /* singular: every entry stays NaN */ }
+  catch {
+    /* singular: every entry stays NaN */
+  }
   return { cov: out, noEffect }
 }

@@ -8,7 +8,11 @@ export type ParameterName = 'lambdaTotal' | 'lambdaSolvent' | 'lambdaInternal' |
 
 /** Defaults for starting values (eV); the coupling's start is scaled to the data instead. */
 export const DEFAULT_INITIAL: Record<ParameterName, number> = {
-  lambdaTotal: 0.8, lambdaSolvent: 0.6, lambdaInternal: 0.3, vibrationEnergy: 0.18, coupling: 0.001
+  lambdaTotal: 0.8,
+  lambdaSolvent: 0.6,
+  lambdaInternal: 0.3,
+  vibrationEnergy: 0.18,
+  coupling: 0.001
 }
 export const MAX_FIT_POINTS = 20000
 /** Measured log10 k (s⁻¹ or M⁻¹ s⁻¹) accepted by a fit: far wider than any measurement (common practice). */

@@ -9,7 +9,10 @@ export function rateFromLifetimes (tau: number, tauReference: number): number {
   c.positive(tauReference, '/referenceLifetime', 'Reference lifetime τ_ref')
   c.throwIfAny()
   if (tau >= tauReference) {
-    c.add('/lifetime', 'The lifetime with the acceptor must be shorter than the reference lifetime; no electron-transfer rate can be derived')
+    c.add(
+      '/lifetime',
+      'The lifetime with the acceptor must be shorter than the reference lifetime; no electron-transfer rate can be derived'
+    )
     c.throwIfAny()
   }
   return 1 / tau - 1 / tauReference
@@ -32,10 +35,13 @@ export function diffusionLimit (viscosityPaS: number, temperatureK: number): num
   c.positive(temperatureK, '/temperatureK', 'Temperature')
   c.throwIfAny()
   // m³ mol⁻¹ s⁻¹ → L mol⁻¹ s⁻¹
-  return 8 * GAS_CONSTANT_J_PER_MOL_K * temperatureK / (3 * viscosityPaS) * 1000
+  return ((8 * GAS_CONSTANT_J_PER_MOL_K * temperatureK) / (3 * viscosityPaS)) * 1000
 }
 
-export interface SternVolmerPoint { quencherConcentration: number, intensityRatio: number }
+export interface SternVolmerPoint {
+  quencherConcentration: number
+  intensityRatio: number
+}
 export interface SternVolmerResult {
   /** K_SV (M⁻¹): slope of τ₀/τ (or I₀/I) − 1 against [Q], through the origin. */
   sternVolmerConstant: number
@@ -52,7 +58,11 @@ export interface SternVolmerResult {
  * Written here (three sums) rather than pulled from a regression package because the
  * line is forced through (0, 1).
  */
-export function sternVolmer (points: SternVolmerPoint[], tau0: number, opts: { viscosityPaS?: number, temperatureK?: number } = {}): SternVolmerResult {
+export function sternVolmer (
+  points: SternVolmerPoint[],
+  tau0: number,
+  opts: { viscosityPaS?: number, temperatureK?: number } = {}
+): SternVolmerResult {
   const c = new IssueCollector()
   c.positive(tau0, '/tau0', 'Unquenched lifetime τ₀')
   if (points.length < 1) c.add('/points', 'At least one quencher concentration is needed')
@@ -61,9 +71,16 @@ export function sternVolmer (points: SternVolmerPoint[], tau0: number, opts: { v
     c.positive(p.intensityRatio, `/points/${i}/intensityRatio`, 'τ₀/τ ratio')
   })
   c.throwIfAny()
-  let sxy = 0; let sxx = 0
-  for (const p of points) { sxy += p.quencherConcentration * (p.intensityRatio - 1); sxx += p.quencherConcentration ** 2 }
-  if (sxx === 0) { c.add('/points', 'All quencher concentrations are zero'); c.throwIfAny() }
+  let sxy = 0
+  let sxx = 0
+  for (const p of points) {
+    sxy += p.quencherConcentration * (p.intensityRatio - 1)
+    sxx += p.quencherConcentration ** 2
+  }
+  if (sxx === 0) {
+    c.add('/points', 'All quencher concentrations are zero')
+    c.throwIfAny()
+  }
   const ksv = sxy / sxx
   const kq = ksv / tau0
   const res: SternVolmerResult = { sternVolmerConstant: ksv, quenchingRate: kq }

@@ -71,7 +71,7 @@ export function checkDrivingForces (dg: ArrayLike<number>, base = '/drivingForce
 
 /** ln of the golden-rule prefactor (2π/ħ) V² (4πλk_BT)^(-1/2), in ln(s⁻¹). */
 function lnPrefactor (coupling: number, lambda: number, kT: number): number {
-  return Math.log(2 * Math.PI / HBAR_EV_S) + 2 * Math.log(coupling) - 0.5 * Math.log(4 * Math.PI * lambda * kT)
+  return Math.log((2 * Math.PI) / HBAR_EV_S) + 2 * Math.log(coupling) - 0.5 * Math.log(4 * Math.PI * lambda * kT)
 }
 
 /** Classical activation free energy ΔG‡ = (λ + ΔG°)² / (4λ), eV. */
@@ -88,7 +88,7 @@ export function classicalLog10Rates (drivingForces: ArrayLike<number>, p: Classi
 
 /** Evaluates log10 k of one expression at one driving force at a time, with tables kept between calls. */
 export interface RateEvaluator {
-  log10Rate (deltaG: number): number
+  log10Rate(deltaG: number): number
   /** Largest number of terms summed by any call so far. */
   readonly termsUsed: number
 }
@@ -102,17 +102,28 @@ export function createClassicalEvaluator (p: ClassicalParams): RateEvaluator {
   return {
     log10Rate (deltaG: number): number {
       const x = deltaG + lambda
-      return (lnA - x * x / a) / LN10
+      return (lnA - (x * x) / a) / LN10
     },
     termsUsed: 1
   }
 }
 
 /** A semi-classical (Marcus–Levich–Jortner) evaluator (no checks: call {@link checkSemiclassical} first). */
-export function createSemiclassicalEvaluator (p: SemiclassicalParams): RateEvaluator & { run (dg: ArrayLike<number>, out: Float64Array): void } {
+export function createSemiclassicalEvaluator (
+  p: SemiclassicalParams
+): RateEvaluator & { run(dg: ArrayLike<number>, out: Float64Array): void } {
   if (p.lambdaInternal === 0) {
-    const c = createClassicalEvaluator({ lambdaTotal: p.lambdaSolvent, coupling: p.coupling, temperatureK: p.temperatureK })
-    return { ...c, run (dg, out) { for (let i = 0; i < dg.length; i++) out[i] = c.log10Rate(dg[i]!) } }
+    const c = createClassicalEvaluator({
+      lambdaTotal: p.lambdaSolvent,
+      coupling: p.coupling,
+      temperatureK: p.temperatureK
+    })
+    return {
+      ...c,
+      run (dg, out) {
+        for (let i = 0; i < dg.length; i++) out[i] = c.log10Rate(dg[i]!)
+      }
+    }
   }
   const kT = BOLTZMANN_EV_PER_K * p.temperatureK
   const h = p.vibrationEnergy
@@ -120,12 +131,14 @@ export function createSemiclassicalEvaluator (p: SemiclassicalParams): RateEvalu
   // Callers check the bounds (S ≤ 200); this guard keeps an unchecked caller from building huge tables.
   if (!(S <= 5 * MAX_HUANG_RHYS)) budgetExceeded(`a Huang–Rhys factor of ${S.toPrecision(3)}`)
   const a = 4 * p.lambdaSolvent * kT
-  const c3 = -2 * h * h / a
+  const c3 = (-2 * h * h) / a
   const st: VibronicState = {
-    ls: p.lambdaSolvent, h, a,
+    ls: p.lambdaSolvent,
+    h,
+    a,
     lnA: lnPrefactor(p.coupling, p.lambdaSolvent, kT),
-    c1: Math.log(S) - h * h / a,
-    c2: -2 * h / a,
+    c1: Math.log(S) - (h * h) / a,
+    c2: (-2 * h) / a,
     c3,
     q: Math.exp(c3),
     tables: tablesFor(S),
@@ -135,13 +148,17 @@ export function createSemiclassicalEvaluator (p: SemiclassicalParams): RateEvalu
   const one = new Float64Array(1)
   const single = [0]
   return {
-    get termsUsed () { return st.termsUsed },
+    get termsUsed () {
+      return st.termsUsed
+    },
     log10Rate (deltaG: number): number {
       single[0] = deltaG
       vibronicRun(single, one, st)
       return one[0]!
     },
-    run (dg: ArrayLike<number>, out: Float64Array): void { vibronicRun(dg, out, st) }
+    run (dg: ArrayLike<number>, out: Float64Array): void {
+      vibronicRun(dg, out, st)
+    }
   }
 }
 
@@ -182,8 +199,11 @@ export interface TermContribution {
  * Per-term contributions of the semi-classical sum, for plotting the vibronic progression.
  * Returns the terms whose weight is at least `minWeight` (default 1e-6), up to `maxTerms`.
  */
-export function semiclassicalTerms (drivingForces: ArrayLike<number>, p: SemiclassicalParams,
-  opts: { minWeight?: number, maxTerms?: number } = {}): TermContribution[] {
+export function semiclassicalTerms (
+  drivingForces: ArrayLike<number>,
+  p: SemiclassicalParams,
+  opts: { minWeight?: number, maxTerms?: number } = {}
+): TermContribution[] {
   checkSemiclassical(p)
   checkDrivingForces(drivingForces)
   const minWeight = opts.minWeight ?? 1e-6
@@ -205,7 +225,7 @@ export function semiclassicalTerms (drivingForces: ArrayLike<number>, p: Semicla
     const log10Rate = new Float64Array(drivingForces.length)
     for (let i = 0; i < drivingForces.length; i++) {
       const y = drivingForces[i]! + p.lambdaSolvent + j * p.vibrationEnergy
-      log10Rate[i] = (lnA + lnW - y * y / a) / LN10
+      log10Rate[i] = (lnA + lnW - (y * y) / a) / LN10
     }
     out.push({ j, weight: w, log10Rate })
   }

@@ -6,7 +6,7 @@ import { COULOMB_EV_ANGSTROM } from './constants'
 import { IssueCollector, PhysicsInputError } from './errors'
 
 export const REFERENCE_ELECTRODES = ['SCE', 'SHE', 'NHE', 'Ag/AgCl', 'Ag/Ag+', 'Fc+/Fc', 'other'] as const
-export type ReferenceElectrode = typeof REFERENCE_ELECTRODES[number]
+export type ReferenceElectrode = (typeof REFERENCE_ELECTRODES)[number]
 
 export interface RehmWellerInput {
   /** Oxidation potential of the donor, E(D⁺/D), V. */
@@ -55,26 +55,34 @@ export function rehmWeller (inp: RehmWellerInput): RehmWellerResult {
   c.nonNegative(inp.excitationEnergy, '/excitationEnergy', 'Excitation energy E₀₀')
   c.positive(inp.solventPermittivity, '/solventPermittivity', 'Solvent permittivity ε_s')
   if (inp.distance !== undefined) c.positive(inp.distance, '/distance', 'Donor–acceptor distance')
-  if (inp.referencePermittivity !== undefined) c.positive(inp.referencePermittivity, '/referencePermittivity', 'Permittivity ε_ref')
+  if (inp.referencePermittivity !== undefined)
+    c.positive(inp.referencePermittivity, '/referencePermittivity', 'Permittivity ε_ref')
   if (inp.donorRadius !== undefined) c.positive(inp.donorRadius, '/donorRadius', 'Donor radius')
   if (inp.acceptorRadius !== undefined) c.positive(inp.acceptorRadius, '/acceptorRadius', 'Acceptor radius')
   const sameRef = normalizeReference(inp.donorReference) === normalizeReference(inp.acceptorReference)
   if (!sameRef && inp.referenceOffset === undefined) {
-    c.add('/acceptorReference', `Potentials are against different reference electrodes (${inp.donorReference} and ${inp.acceptorReference}); record the offset between them in referenceOffset`)
+    c.add(
+      '/acceptorReference',
+      `Potentials are against different reference electrodes (${inp.donorReference} and ${inp.acceptorReference}); record the offset between them in referenceOffset`
+    )
   }
   if (inp.referenceOffset !== undefined) c.finite(inp.referenceOffset, '/referenceOffset', 'Reference offset')
   const epsRef = inp.referencePermittivity ?? inp.solventPermittivity
   const needsBorn = inp.referencePermittivity !== undefined && inp.referencePermittivity !== inp.solventPermittivity
   if (needsBorn && (inp.donorRadius === undefined || inp.acceptorRadius === undefined)) {
-    c.add(inp.donorRadius === undefined ? '/donorRadius' : '/acceptorRadius',
-      'Ionic radii of donor and acceptor are needed when the potentials were measured in another solvent')
+    c.add(
+      inp.donorRadius === undefined ? '/donorRadius' : '/acceptorRadius',
+      'Ionic radii of donor and acceptor are needed when the potentials were measured in another solvent'
+    )
   }
   c.throwIfAny()
   const eRed = inp.acceptorReductionPotential + (sameRef ? 0 : inp.referenceOffset!)
   const redox = inp.donorOxidationPotential - eRed
   const coulomb = inp.distance === undefined ? 0 : -COULOMB_EV_ANGSTROM / (inp.solventPermittivity * inp.distance)
   const born = needsBorn
-    ? (COULOMB_EV_ANGSTROM / 2) * (1 / inp.donorRadius! + 1 / inp.acceptorRadius!) * (1 / inp.solventPermittivity - 1 / epsRef)
+    ? (COULOMB_EV_ANGSTROM / 2)
+    * (1 / inp.donorRadius! + 1 / inp.acceptorRadius!)
+    * (1 / inp.solventPermittivity - 1 / epsRef)
     : 0
   const excitation = -inp.excitationEnergy
   return {
@@ -90,12 +98,16 @@ export function chargeRecombinationDrivingForce (deltaGChargeSeparation: number,
 }
 
 function normalizeReference (r: string): string {
-  const s = String(r ?? '').trim().toLowerCase().replace(/\s+/g, '')
+  const s = String(r ?? '')
+    .trim()
+    .toLowerCase()
+    .replace(/\s+/g, '')
   return s === 'nhe' ? 'she' : s // NHE and SHE are treated as one scale (they differ by < 1 mV)
 }
 
 /** Processes as the record format names them. */
-export type DerivationProcess = 'charge-separation' | 'charge-recombination' | 'charge-shift' | 'hole-transfer' | 'other'
+export type DerivationProcess
+  = 'charge-separation' | 'charge-recombination' | 'charge-shift' | 'hole-transfer' | 'other'
 
 export const CHARGE_RECOMBINATION_FORMULA
   = 'ΔG°_CR = −(ΔG°_CS + E₀₀) = −(e[E_ox(D⁺/D) − E_red(A/A⁻)] − e²/(4πε₀ε_sR) + (e²/8πε₀)(1/r_D + 1/r_A)(1/ε_s − 1/ε_ref)); E₀₀ cancels'
@@ -117,8 +129,18 @@ export interface ProcessDerivation extends RehmWellerResult {
  * 'other' has no defined derivation: the caller must give ΔG° itself.
  */
 export function drivingForceByProcess (process: string | undefined, inp: RehmWellerInput): ProcessDerivation {
-  if (process !== 'charge-separation' && process !== 'charge-recombination' && process !== 'charge-shift' && process !== 'hole-transfer') {
-    throw new PhysicsInputError([{ path: '/process', message: `ΔG° cannot be derived from potentials for process "${process ?? ''}": give ΔG° directly, or set the process to charge-separation, charge-recombination, charge-shift or hole-transfer` }])
+  if (
+    process !== 'charge-separation'
+    && process !== 'charge-recombination'
+    && process !== 'charge-shift'
+    && process !== 'hole-transfer'
+  ) {
+    throw new PhysicsInputError([
+      {
+        path: '/process',
+        message: `ΔG° cannot be derived from potentials for process "${process ?? ''}": give ΔG° directly, or set the process to charge-separation, charge-recombination, charge-shift or hole-transfer`
+      }
+    ])
   }
   if (process === 'charge-separation') return { ...rehmWeller(inp), process, name: 'Rehm–Weller for charge separation' }
   if (process === 'charge-recombination') {
@@ -134,6 +156,18 @@ export function drivingForceByProcess (process: string | undefined, inp: RehmWel
     }
   }
   // charge shift / hole transfer: no work terms; the permittivities and radii play no part
-  const r = rehmWeller({ ...inp, distance: undefined, referencePermittivity: undefined, donorRadius: undefined, acceptorRadius: undefined })
-  return { process, name: `${process}, e[E_ox − E_red] − E₀₀ without an ion-pair term`, deltaG: r.terms.redox + r.terms.excitation, terms: { ...r.terms, coulomb: 0, born: 0 }, formula: CHARGE_SHIFT_FORMULA }
+  const r = rehmWeller({
+    ...inp,
+    distance: undefined,
+    referencePermittivity: undefined,
+    donorRadius: undefined,
+    acceptorRadius: undefined
+  })
+  return {
+    process,
+    name: `${process}, e[E_ox − E_red] − E₀₀ without an ion-pair term`,
+    deltaG: r.terms.redox + r.terms.excitation,
+    terms: { ...r.terms, coulomb: 0, born: 0 },
+    formula: CHARGE_SHIFT_FORMULA
+  }
 }

@@ -38,7 +38,10 @@ export function twoSphereSolventReorganization (inp: TwoSphereInput): number {
   // A static permittivity below the optical one (ε_s < n²) has no physical meaning for a dielectric
   // at rest, and would give a negative λ_s: refuse rather than return it.
   if (pekarFactor(inp.refractiveIndex, inp.staticPermittivity) <= 0) {
-    c.add('/staticPermittivity', `Static permittivity ε_s = ${inp.staticPermittivity} is not above n² = ${(inp.refractiveIndex ** 2).toFixed(4)}: the solvent term would be zero or negative; check the two values`)
+    c.add(
+      '/staticPermittivity',
+      `Static permittivity ε_s = ${inp.staticPermittivity} is not above n² = ${(inp.refractiveIndex ** 2).toFixed(4)}: the solvent term would be zero or negative; check the two values`
+    )
   }
   c.throwIfAny()
   const geometry = 1 / (2 * inp.donorRadius) + 1 / (2 * inp.acceptorRadius) - 1 / inp.distance

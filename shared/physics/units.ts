@@ -2,12 +2,10 @@
  * Unit tables and conversions to the canonical set used inside Crosspoint:
  * energies in eV, temperature in K, distance in Å, rates in s⁻¹ (bimolecular M⁻¹ s⁻¹), time in s.
  */
-import {
-  HC_EV_NM, KCAL_PER_MOL_PER_EV, KJ_PER_MOL_PER_EV, WAVENUMBER_PER_EV
-} from './constants'
+import { HC_EV_NM, KCAL_PER_MOL_PER_EV, KJ_PER_MOL_PER_EV, WAVENUMBER_PER_EV } from './constants'
 
 export const ENERGY_UNITS = ['eV', 'meV', 'cm-1', 'kJ/mol', 'kcal/mol'] as const
-export type EnergyUnit = typeof ENERGY_UNITS[number]
+export type EnergyUnit = (typeof ENERGY_UNITS)[number]
 
 /** How many of each unit make one eV. */
 const PER_EV: Record<EnergyUnit, number> = {
@@ -45,20 +43,20 @@ export function evToWavelengthNm (ev: number): number {
 }
 
 export const TEMPERATURE_UNITS = ['K', 'degC'] as const
-export type TemperatureUnit = typeof TEMPERATURE_UNITS[number]
+export type TemperatureUnit = (typeof TEMPERATURE_UNITS)[number]
 export function temperatureToK (value: number, unit: TemperatureUnit): number {
   return unit === 'K' ? value : value + 273.15
 }
 
 export const DISTANCE_UNITS = ['angstrom', 'nm', 'pm'] as const
-export type DistanceUnit = typeof DISTANCE_UNITS[number]
+export type DistanceUnit = (typeof DISTANCE_UNITS)[number]
 const ANGSTROM_PER: Record<DistanceUnit, number> = { angstrom: 1, nm: 10, pm: 0.01 }
 export function distanceToAngstrom (value: number, unit: DistanceUnit): number {
   return value * ANGSTROM_PER[unit]
 }
 
 export const TIME_UNITS = ['s', 'ms', 'us', 'ns', 'ps', 'fs'] as const
-export type TimeUnit = typeof TIME_UNITS[number]
+export type TimeUnit = (typeof TIME_UNITS)[number]
 const SECONDS_PER: Record<TimeUnit, number> = { s: 1, ms: 1e-3, us: 1e-6, ns: 1e-9, ps: 1e-12, fs: 1e-15 }
 export function timeToSeconds (value: number, unit: TimeUnit): number {
   return value * SECONDS_PER[unit]
@@ -66,7 +64,7 @@ export function timeToSeconds (value: number, unit: TimeUnit): number {
 
 /** Unimolecular rate units (canonical s⁻¹). */
 export const RATE_UNITS = ['s-1', 'ms-1', 'us-1', 'ns-1', 'ps-1'] as const
-export type RateUnit = typeof RATE_UNITS[number]
+export type RateUnit = (typeof RATE_UNITS)[number]
 const PER_SECOND: Record<RateUnit, number> = { 's-1': 1, 'ms-1': 1e3, 'us-1': 1e6, 'ns-1': 1e9, 'ps-1': 1e12 }
 export function rateToPerSecond (value: number, unit: RateUnit): number {
   return value * PER_SECOND[unit]
@@ -74,10 +72,10 @@ export function rateToPerSecond (value: number, unit: RateUnit): number {
 
 /** Bimolecular rate units (canonical M⁻¹ s⁻¹). */
 export const BIMOLECULAR_RATE_UNITS = ['M-1 s-1', 'M-1 ns-1', 'cm3 molecule-1 s-1'] as const
-export type BimolecularRateUnit = typeof BIMOLECULAR_RATE_UNITS[number]
+export type BimolecularRateUnit = (typeof BIMOLECULAR_RATE_UNITS)[number]
 
 export const POTENTIAL_UNITS = ['V', 'mV'] as const
-export type PotentialUnit = typeof POTENTIAL_UNITS[number]
+export type PotentialUnit = (typeof POTENTIAL_UNITS)[number]
 export function potentialToVolt (value: number, unit: PotentialUnit): number {
   return unit === 'V' ? value : value / 1000
 }

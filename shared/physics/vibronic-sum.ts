@@ -10,7 +10,9 @@ import { PhysicsInputError } from './errors'
 const TAIL_EPSILON = 2 ** -54
 
 export function budgetExceeded (what: string): never {
-  throw new PhysicsInputError([{ path: '/', message: `The vibronic sum would need ${what}; the inputs are outside what the model can evaluate` }])
+  throw new PhysicsInputError([
+    { path: '/', message: `The vibronic sum would need ${what}; the inputs are outside what the model can evaluate` }
+  ])
 }
 
 /** Cached per-parameter tables for the vibronic sum (ln Poisson weights, ln(j+1), ratio factors). */
@@ -19,10 +21,15 @@ class VibronicTables {
   lnJ1 = new Float64Array(0)
   /** (j+1)/(j+2): how the up-ratio changes from step j to j+1, apart from the Gaussian factor q. */
   upStep = new Float64Array(0)
-  constructor (readonly S: number) { this.grow(Math.ceil(S + 12 * Math.sqrt(S)) + 24) }
+  constructor (readonly S: number) {
+    this.grow(Math.ceil(S + 12 * Math.sqrt(S)) + 24)
+  }
+
   grow (n: number): void {
     const lnS = Math.log(this.S)
-    const lw = new Float64Array(n); const l1 = new Float64Array(n); const us = new Float64Array(n)
+    const lw = new Float64Array(n)
+    const l1 = new Float64Array(n)
+    const us = new Float64Array(n)
     let lnFact = 0
     for (let j = 0; j < n; j++) {
       if (j > 0) lnFact += Math.log(j)
@@ -30,7 +37,9 @@ class VibronicTables {
       l1[j] = Math.log(j + 1)
       us[j] = (j + 1) / (j + 2)
     }
-    this.lnWeight = lw; this.lnJ1 = l1; this.upStep = us
+    this.lnWeight = lw
+    this.lnJ1 = l1
+    this.upStep = us
   }
 
   ensure (j: number): void {
@@ -53,8 +62,14 @@ export function tablesFor (S: number): VibronicTables {
 
 /** Constants and tables of one semi-classical parameter set, shared by every call. */
 export interface VibronicState {
-  ls: number, h: number, a: number, lnA: number
-  c1: number, c2: number, c3: number, q: number
+  ls: number
+  h: number
+  a: number
+  lnA: number
+  c1: number
+  c2: number
+  c3: number
+  q: number
   tables: VibronicTables
   /** Index of the largest term at the previous point: the warm start for the next. */
   jStar: number
@@ -88,10 +103,16 @@ export function vibronicRun (dg: ArrayLike<number>, out: Float64Array, st: Vibro
     while (jStar > 0 && base - l1[jStar - 1]! + c3 * (jStar - 1) < 0) jStar--
     while (base - l1[jStar]! + c3 * jStar >= 0) {
       if (jStar >= MAX_VIBRONIC_INDEX) budgetExceeded(`a dominant term beyond j = ${MAX_VIBRONIC_INDEX}`)
-      if (++jStar >= cap) { tables.ensure(jStar); lw = tables.lnWeight; l1 = tables.lnJ1; us = tables.upStep; cap = lw.length - 2 }
+      if (++jStar >= cap) {
+        tables.ensure(jStar)
+        lw = tables.lnWeight
+        l1 = tables.lnJ1
+        us = tables.upStep
+        cap = lw.length - 2
+      }
     }
     const y = x + jStar * h
-    const lnMax = lw[jStar]! - y * y / a
+    const lnMax = lw[jStar]! - (y * y) / a
     const rUp0 = Math.exp(base - l1[jStar]! + c3 * jStar)
     let sum = 1
     let used = 1
@@ -103,7 +124,13 @@ export function vibronicRun (dg: ArrayLike<number>, out: Float64Array, st: Vibro
       t *= r
       sum += t
       if (++used > MAX_VIBRONIC_TERMS) budgetExceeded(`more than ${MAX_VIBRONIC_TERMS} terms`)
-      if (++j >= cap) { tables.ensure(j); lw = tables.lnWeight; l1 = tables.lnJ1; us = tables.upStep; cap = lw.length - 2 }
+      if (++j >= cap) {
+        tables.ensure(j)
+        lw = tables.lnWeight
+        l1 = tables.lnJ1
+        us = tables.upStep
+        cap = lw.length - 2
+      }
       r *= q * us[j - 1]!
       if (t * r < TAIL_EPSILON * (1 - r) * sum) break
     }
@@ -111,7 +138,7 @@ export function vibronicRun (dg: ArrayLike<number>, out: Float64Array, st: Vibro
     if (jStar > 0) {
       t = 1
       // d_{j*} from r_{j*} unless r_{j*} underflowed (then directly: one more exp, only in that corner).
-      let d = rUp0 > 1e-290 ? q * us[jStar - 1]! / rUp0 : Math.exp(-(base - l1[jStar - 1]! + c3 * (jStar - 1)))
+      let d = rUp0 > 1e-290 ? (q * us[jStar - 1]!) / rUp0 : Math.exp(-(base - l1[jStar - 1]! + c3 * (jStar - 1)))
       j = jStar
       for (;;) {
         t *= d

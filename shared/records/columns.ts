@@ -2,7 +2,14 @@
  * The flat, spreadsheet-shaped view of a rate record: one column per field, units in the header
  * ("rate (ns-1)"). Used by the CSV/XLSX templates, the upload check and the entry form alike.
  */
-import { DISTANCE_UNITS, ENERGY_UNITS, POTENTIAL_UNITS, RATE_UNITS, TEMPERATURE_UNITS, TIME_UNITS } from '../physics/units'
+import {
+  DISTANCE_UNITS,
+  ENERGY_UNITS,
+  POTENTIAL_UNITS,
+  RATE_UNITS,
+  TEMPERATURE_UNITS,
+  TIME_UNITS
+} from '../physics/units'
 import { LINKAGES, PROCESSES, TECHNIQUES } from './types'
 import { REFERENCE_ELECTRODES } from '../physics/redox'
 
@@ -24,45 +31,300 @@ const ENERGY = [...ENERGY_UNITS] as string[]
 const BIMOLECULAR = ['M-1 s-1']
 
 export const COLUMNS: ColumnDef[] = [
-  { key: 'donor_name', kind: 'text', required: true, pointer: '/system/donor/name', help: 'Electron donor', example: 'ZnP' },
-  { key: 'donor_class', kind: 'text', pointer: '/system/donor/class', help: 'Chemical class of the donor', example: 'porphyrin' },
+  {
+    key: 'donor_name',
+    kind: 'text',
+    required: true,
+    pointer: '/system/donor/name',
+    help: 'Electron donor',
+    example: 'ZnP'
+  },
+  {
+    key: 'donor_class',
+    kind: 'text',
+    pointer: '/system/donor/class',
+    help: 'Chemical class of the donor',
+    example: 'porphyrin'
+  },
   { key: 'donor_smiles', kind: 'text', pointer: '/system/donor/smiles', help: 'SMILES of the donor', example: '' },
-  { key: 'acceptor_name', kind: 'text', required: true, pointer: '/system/acceptor/name', help: 'Electron acceptor', example: 'C60' },
-  { key: 'acceptor_class', kind: 'text', pointer: '/system/acceptor/class', help: 'Chemical class of the acceptor', example: 'fullerene' },
-  { key: 'acceptor_smiles', kind: 'text', pointer: '/system/acceptor/smiles', help: 'SMILES of the acceptor', example: '' },
-  { key: 'bridge_name', kind: 'text', pointer: '/system/bridge/name', help: 'Bridge or spacer, if any', example: 'phenylene' },
-  { key: 'linkage', kind: 'enum', values: LINKAGES, required: true, pointer: '/system/linkage', help: 'How donor and acceptor are held together', example: 'covalent' },
-  { key: 'process', kind: 'enum', values: PROCESSES, required: true, pointer: '/process', help: 'Kind of electron-transfer step', example: 'charge-separation' },
-  { key: 'initial_state', kind: 'enum', values: ['singlet', 'triplet', 'thermal'], required: true, pointer: '/initialState', help: 'State the reaction starts from', example: 'singlet' },
-  { key: 'solvent', kind: 'text', pointer: '/medium/solvent', help: 'Solvent (name from the reference table fills ε and n)', example: 'benzonitrile' },
-  { key: 'permittivity', kind: 'number', pointer: '/medium/permittivity', help: 'Static permittivity ε_s (dimensionless); from the solvent table when empty', example: '' },
-  { key: 'refractive_index', kind: 'number', pointer: '/medium/refractiveIndex', help: 'Refractive index n_D; from the solvent table when empty', example: '' },
-  { key: 'matrix', kind: 'text', pointer: '/medium/matrix', help: 'Solid matrix or film instead of a solvent', example: '' },
-  { key: 'temperature', kind: 'number', units: TEMPERATURE_UNITS, required: true, pointer: '/temperatureK', help: 'Temperature', example: '298.15' },
-  { key: 'distance_cc', kind: 'number', units: DISTANCE_UNITS, pointer: '/geometry/centerToCenterAngstrom', help: 'Centre-to-centre distance', example: '12.5' },
-  { key: 'distance_ee', kind: 'number', units: DISTANCE_UNITS, pointer: '/geometry/edgeToEdgeAngstrom', help: 'Edge-to-edge distance', example: '' },
-  { key: 'rate', kind: 'number', units: [...RATE_UNITS, ...BIMOLECULAR], pointer: '/rate/value', help: 'Rate constant (or give the two lifetimes)', example: '1.2e9' },
-  { key: 'rate_uncertainty', kind: 'number', units: [...RATE_UNITS, ...BIMOLECULAR], pointer: '/rate/uncertainty', help: 'One standard uncertainty of the rate', example: '1e8' },
-  { key: 'lifetime', kind: 'number', units: TIME_UNITS, pointer: '/rate/lifetimeS', help: 'Donor lifetime with the acceptor, τ (rate then k = 1/τ − 1/τ_ref)', example: '' },
-  { key: 'reference_lifetime', kind: 'number', units: TIME_UNITS, pointer: '/rate/referenceLifetimeS', help: 'Donor lifetime without the acceptor, τ_ref', example: '' },
-  { key: 'delta_g', kind: 'number', units: ENERGY, pointer: '/drivingForce/value', help: 'Driving force ΔG° (negative = downhill); or give the potentials', example: '-0.74' },
-  { key: 'delta_g_uncertainty', kind: 'number', units: ENERGY, pointer: '/drivingForce/uncertainty', help: 'One standard uncertainty of ΔG°', example: '0.05' },
-  { key: 'delta_g_method', kind: 'enum', values: ['measured', 'redox-potentials', 'computed', 'estimated'], pointer: '/drivingForce/method', help: 'How ΔG° was obtained (default: measured, or redox-potentials when potentials are given)', example: 'estimated' },
-  { key: 'donor_oxidation_potential', kind: 'number', units: POTENTIAL_UNITS, pointer: '/drivingForce/redox/donorOxidationPotential', help: 'E(D⁺/D)', example: '' },
-  { key: 'donor_reference', kind: 'enum', values: REFERENCE_ELECTRODES, pointer: '/drivingForce/redox/donorReference', help: 'Reference electrode of E(D⁺/D)', example: '' },
-  { key: 'acceptor_reduction_potential', kind: 'number', units: POTENTIAL_UNITS, pointer: '/drivingForce/redox/acceptorReductionPotential', help: 'E(A/A⁻)', example: '' },
-  { key: 'acceptor_reference', kind: 'enum', values: REFERENCE_ELECTRODES, pointer: '/drivingForce/redox/acceptorReference', help: 'Reference electrode of E(A/A⁻)', example: '' },
-  { key: 'reference_offset', kind: 'number', units: POTENTIAL_UNITS, pointer: '/drivingForce/redox/referenceOffset', help: 'Recorded offset added to E(A/A⁻) to put it on the donor\'s reference', example: '' },
-  { key: 'excitation_energy', kind: 'number', units: [...ENERGY, 'nm'], pointer: '/drivingForce/redox/excitationEnergy', help: 'E₀₀ of the excited partner (a wavelength in nm is converted)', example: '' },
-  { key: 'lambda_solvent', kind: 'number', units: ENERGY, pointer: '/reportedParameters/lambdaSolvent', help: 'Reported λ_s', example: '' },
-  { key: 'lambda_internal', kind: 'number', units: ENERGY, pointer: '/reportedParameters/lambdaInternal', help: 'Reported λ_i', example: '' },
-  { key: 'coupling', kind: 'number', units: ENERGY, pointer: '/reportedParameters/coupling', help: 'Reported electronic coupling V', example: '' },
-  { key: 'vibration_energy', kind: 'number', units: ENERGY, pointer: '/reportedParameters/vibrationEnergy', help: 'Reported ħω', example: '' },
-  { key: 'technique', kind: 'enum', values: TECHNIQUES, required: true, pointer: '/technique/method', help: 'Measurement technique', example: 'transient-absorption' },
-  { key: 'excitation_wavelength', kind: 'number', units: ['nm'], pointer: '/technique/excitationWavelengthNm', help: 'Pump wavelength', example: '420' },
-  { key: 'time_resolution', kind: 'number', units: TIME_UNITS, pointer: '/technique/timeResolutionS', help: 'Instrument time resolution', example: '' },
+  {
+    key: 'acceptor_name',
+    kind: 'text',
+    required: true,
+    pointer: '/system/acceptor/name',
+    help: 'Electron acceptor',
+    example: 'C60'
+  },
+  {
+    key: 'acceptor_class',
+    kind: 'text',
+    pointer: '/system/acceptor/class',
+    help: 'Chemical class of the acceptor',
+    example: 'fullerene'
+  },
+  {
+    key: 'acceptor_smiles',
+    kind: 'text',
+    pointer: '/system/acceptor/smiles',
+    help: 'SMILES of the acceptor',
+    example: ''
+  },
+  {
+    key: 'bridge_name',
+    kind: 'text',
+    pointer: '/system/bridge/name',
+    help: 'Bridge or spacer, if any',
+    example: 'phenylene'
+  },
+  {
+    key: 'linkage',
+    kind: 'enum',
+    values: LINKAGES,
+    required: true,
+    pointer: '/system/linkage',
+    help: 'How donor and acceptor are held together',
+    example: 'covalent'
+  },
+  {
+    key: 'process',
+    kind: 'enum',
+    values: PROCESSES,
+    required: true,
+    pointer: '/process',
+    help: 'Kind of electron-transfer step',
+    example: 'charge-separation'
+  },
+  {
+    key: 'initial_state',
+    kind: 'enum',
+    values: ['singlet', 'triplet', 'thermal'],
+    required: true,
+    pointer: '/initialState',
+    help: 'State the reaction starts from',
+    example: 'singlet'
+  },
+  {
+    key: 'solvent',
+    kind: 'text',
+    pointer: '/medium/solvent',
+    help: 'Solvent (name from the reference table fills ε and n)',
+    example: 'benzonitrile'
+  },
+  {
+    key: 'permittivity',
+    kind: 'number',
+    pointer: '/medium/permittivity',
+    help: 'Static permittivity ε_s (dimensionless); from the solvent table when empty',
+    example: ''
+  },
+  {
+    key: 'refractive_index',
+    kind: 'number',
+    pointer: '/medium/refractiveIndex',
+    help: 'Refractive index n_D; from the solvent table when empty',
+    example: ''
+  },
+  {
+    key: 'matrix',
+    kind: 'text',
+    pointer: '/medium/matrix',
+    help: 'Solid matrix or film instead of a solvent',
+    example: ''
+  },
+  {
+    key: 'temperature',
+    kind: 'number',
+    units: TEMPERATURE_UNITS,
+    required: true,
+    pointer: '/temperatureK',
+    help: 'Temperature',
+    example: '298.15'
+  },
+  {
+    key: 'distance_cc',
+    kind: 'number',
+    units: DISTANCE_UNITS,
+    pointer: '/geometry/centerToCenterAngstrom',
+    help: 'Centre-to-centre distance',
+    example: '12.5'
+  },
+  {
+    key: 'distance_ee',
+    kind: 'number',
+    units: DISTANCE_UNITS,
+    pointer: '/geometry/edgeToEdgeAngstrom',
+    help: 'Edge-to-edge distance',
+    example: ''
+  },
+  {
+    key: 'rate',
+    kind: 'number',
+    units: [...RATE_UNITS, ...BIMOLECULAR],
+    pointer: '/rate/value',
+    help: 'Rate constant (or give the two lifetimes)',
+    example: '1.2e9'
+  },
+  {
+    key: 'rate_uncertainty',
+    kind: 'number',
+    units: [...RATE_UNITS, ...BIMOLECULAR],
+    pointer: '/rate/uncertainty',
+    help: 'One standard uncertainty of the rate',
+    example: '1e8'
+  },
+  {
+    key: 'lifetime',
+    kind: 'number',
+    units: TIME_UNITS,
+    pointer: '/rate/lifetimeS',
+    help: 'Donor lifetime with the acceptor, τ (rate then k = 1/τ − 1/τ_ref)',
+    example: ''
+  },
+  {
+    key: 'reference_lifetime',
+    kind: 'number',
+    units: TIME_UNITS,
+    pointer: '/rate/referenceLifetimeS',
+    help: 'Donor lifetime without the acceptor, τ_ref',
+    example: ''
+  },
+  {
+    key: 'delta_g',
+    kind: 'number',
+    units: ENERGY,
+    pointer: '/drivingForce/value',
+    help: 'Driving force ΔG° (negative = downhill); or give the potentials',
+    example: '-0.74'
+  },
+  {
+    key: 'delta_g_uncertainty',
+    kind: 'number',
+    units: ENERGY,
+    pointer: '/drivingForce/uncertainty',
+    help: 'One standard uncertainty of ΔG°',
+    example: '0.05'
+  },
+  {
+    key: 'delta_g_method',
+    kind: 'enum',
+    values: ['measured', 'redox-potentials', 'computed', 'estimated'],
+    pointer: '/drivingForce/method',
+    help: 'How ΔG° was obtained (default: measured, or redox-potentials when potentials are given)',
+    example: 'estimated'
+  },
+  {
+    key: 'donor_oxidation_potential',
+    kind: 'number',
+    units: POTENTIAL_UNITS,
+    pointer: '/drivingForce/redox/donorOxidationPotential',
+    help: 'E(D⁺/D)',
+    example: ''
+  },
+  {
+    key: 'donor_reference',
+    kind: 'enum',
+    values: REFERENCE_ELECTRODES,
+    pointer: '/drivingForce/redox/donorReference',
+    help: 'Reference electrode of E(D⁺/D)',
+    example: ''
+  },
+  {
+    key: 'acceptor_reduction_potential',
+    kind: 'number',
+    units: POTENTIAL_UNITS,
+    pointer: '/drivingForce/redox/acceptorReductionPotential',
+    help: 'E(A/A⁻)',
+    example: ''
+  },
+  {
+    key: 'acceptor_reference',
+    kind: 'enum',
+    values: REFERENCE_ELECTRODES,
+    pointer: '/drivingForce/redox/acceptorReference',
+    help: 'Reference electrode of E(A/A⁻)',
+    example: ''
+  },
+  {
+    key: 'reference_offset',
+    kind: 'number',
+    units: POTENTIAL_UNITS,
+    pointer: '/drivingForce/redox/referenceOffset',
+    help: 'Recorded offset added to E(A/A⁻) to put it on the donor\'s reference',
+    example: ''
+  },
+  {
+    key: 'excitation_energy',
+    kind: 'number',
+    units: [...ENERGY, 'nm'],
+    pointer: '/drivingForce/redox/excitationEnergy',
+    help: 'E₀₀ of the excited partner (a wavelength in nm is converted)',
+    example: ''
+  },
+  {
+    key: 'lambda_solvent',
+    kind: 'number',
+    units: ENERGY,
+    pointer: '/reportedParameters/lambdaSolvent',
+    help: 'Reported λ_s',
+    example: ''
+  },
+  {
+    key: 'lambda_internal',
+    kind: 'number',
+    units: ENERGY,
+    pointer: '/reportedParameters/lambdaInternal',
+    help: 'Reported λ_i',
+    example: ''
+  },
+  {
+    key: 'coupling',
+    kind: 'number',
+    units: ENERGY,
+    pointer: '/reportedParameters/coupling',
+    help: 'Reported electronic coupling V',
+    example: ''
+  },
+  {
+    key: 'vibration_energy',
+    kind: 'number',
+    units: ENERGY,
+    pointer: '/reportedParameters/vibrationEnergy',
+    help: 'Reported ħω',
+    example: ''
+  },
+  {
+    key: 'technique',
+    kind: 'enum',
+    values: TECHNIQUES,
+    required: true,
+    pointer: '/technique/method',
+    help: 'Measurement technique',
+    example: 'transient-absorption'
+  },
+  {
+    key: 'excitation_wavelength',
+    kind: 'number',
+    units: ['nm'],
+    pointer: '/technique/excitationWavelengthNm',
+    help: 'Pump wavelength',
+    example: '420'
+  },
+  {
+    key: 'time_resolution',
+    kind: 'number',
+    units: TIME_UNITS,
+    pointer: '/technique/timeResolutionS',
+    help: 'Instrument time resolution',
+    example: ''
+  },
   { key: 'notes', kind: 'text', pointer: '/notes', help: 'Free-text notes', example: '' },
-  { key: 'location', kind: 'text', pointer: '/location', help: 'Where in the article the number is', example: 'Table 2' }
+  {
+    key: 'location',
+    kind: 'text',
+    pointer: '/location',
+    help: 'Where in the article the number is',
+    example: 'Table 2'
+  }
 ]
 
 export const COLUMN_BY_KEY = new Map(COLUMNS.map(c => [c.key, c]))
@@ -82,7 +344,12 @@ export function parseHeader (h: string): { key: string, unit?: string } {
 /** Which column a record pointer belongs to (longest matching prefix). */
 export function columnForPointer (pointer: string): string | undefined {
   let best: ColumnDef | undefined
-  for (const c of COLUMNS) if ((pointer === c.pointer || pointer.startsWith(c.pointer + '/')) && (!best || c.pointer.length > best.pointer.length)) best = c
+  for (const c of COLUMNS)
+    if (
+      (pointer === c.pointer || pointer.startsWith(c.pointer + '/'))
+      && (!best || c.pointer.length > best.pointer.length)
+    )
+      best = c
   if (best) return best.key
   if (pointer.startsWith('/rate')) return 'rate'
   if (pointer.startsWith('/drivingForce')) return 'delta_g'

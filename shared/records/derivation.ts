@@ -22,7 +22,11 @@ export function rederive (r: RateRecordV1): Rederived | null {
   if (df?.method !== 'redox-potentials' || !df.redox || r.medium?.permittivity === undefined) return null
   let d
   try {
-    d = drivingForceByProcess(r.process, { ...df.redox, distance: r.geometry?.centerToCenterAngstrom, solventPermittivity: r.medium.permittivity })
+    d = drivingForceByProcess(r.process, {
+      ...df.redox,
+      distance: r.geometry?.centerToCenterAngstrom,
+      solventPermittivity: r.medium.permittivity
+    })
   }
   catch (e) {
     if (e instanceof PhysicsInputError) return null // cannot be derived (e.g. process "other"): the deposit check names it

@@ -6,14 +6,45 @@
 export type Linkage = 'covalent' | 'supramolecular' | 'bimolecular' | 'protein' | 'other'
 export type ProcessKind = 'charge-separation' | 'charge-recombination' | 'charge-shift' | 'hole-transfer' | 'other'
 export type InitialState = 'singlet' | 'triplet' | 'thermal'
-export type TechniqueMethod = 'transient-absorption' | 'tcspc' | 'upconversion' | 'streak-camera' | 'pulse-radiolysis' | 'microwave-conductivity' | 'steady-state-quenching' | 'other'
+export type TechniqueMethod
+  = | 'transient-absorption'
+    | 'tcspc'
+    | 'upconversion'
+    | 'streak-camera'
+    | 'pulse-radiolysis'
+    | 'microwave-conductivity'
+    | 'steady-state-quenching'
+    | 'other'
 
 export const LINKAGES: Linkage[] = ['covalent', 'supramolecular', 'bimolecular', 'protein', 'other']
-export const PROCESSES: ProcessKind[] = ['charge-separation', 'charge-recombination', 'charge-shift', 'hole-transfer', 'other']
-export const TECHNIQUES: TechniqueMethod[] = ['transient-absorption', 'tcspc', 'upconversion', 'streak-camera', 'pulse-radiolysis', 'microwave-conductivity', 'steady-state-quenching', 'other']
+export const PROCESSES: ProcessKind[] = [
+  'charge-separation',
+  'charge-recombination',
+  'charge-shift',
+  'hole-transfer',
+  'other'
+]
+export const TECHNIQUES: TechniqueMethod[] = [
+  'transient-absorption',
+  'tcspc',
+  'upconversion',
+  'streak-camera',
+  'pulse-radiolysis',
+  'microwave-conductivity',
+  'steady-state-quenching',
+  'other'
+]
 
-export interface Species { name: string, class?: string, smiles?: string, inchiKey?: string }
-export interface Original { value: number, unit: string }
+export interface Species {
+  name: string
+  class?: string
+  smiles?: string
+  inchiKey?: string
+}
+export interface Original {
+  value: number
+  unit: string
+}
 
 export interface RateRecordV1 {
   system: { donor: Species, acceptor: Species, bridge?: Species, linkage: Linkage }
@@ -23,14 +54,28 @@ export interface RateRecordV1 {
   temperatureK: number
   geometry?: { centerToCenterAngstrom?: number, edgeToEdgeAngstrom?: number }
   rate: {
-    value: number, uncertainty?: number, kind: 'unimolecular' | 'bimolecular'
-    method?: 'direct' | 'lifetimes' | 'stern-volmer', lifetimeS?: number, referenceLifetimeS?: number, original?: Original
+    value: number
+    uncertainty?: number
+    kind: 'unimolecular' | 'bimolecular'
+    method?: 'direct' | 'lifetimes' | 'stern-volmer'
+    lifetimeS?: number
+    referenceLifetimeS?: number
+    original?: Original
   }
   drivingForce?: {
-    value: number, uncertainty?: number, method: 'measured' | 'redox-potentials' | 'computed' | 'estimated'
+    value: number
+    uncertainty?: number
+    method: 'measured' | 'redox-potentials' | 'computed' | 'estimated'
     redox?: {
-      donorOxidationPotential: number, donorReference: string, acceptorReductionPotential: number, acceptorReference: string
-      referenceOffset?: number, excitationEnergy: number, referencePermittivity?: number, donorRadius?: number, acceptorRadius?: number
+      donorOxidationPotential: number
+      donorReference: string
+      acceptorReductionPotential: number
+      acceptorReference: string
+      referenceOffset?: number
+      excitationEnergy: number
+      referencePermittivity?: number
+      donorRadius?: number
+      acceptorRadius?: number
     }
     original?: Original
   }
@@ -40,7 +85,12 @@ export interface RateRecordV1 {
   location?: string
 }
 
-export interface Creator { name: string, orcid?: string, affiliation?: string, rorId?: string }
+export interface Creator {
+  name: string
+  orcid?: string
+  affiliation?: string
+  rorId?: string
+}
 export interface DatasetMetadataV1 {
   title: string
   description?: string

@@ -1,7 +1,13 @@
 import { sql } from 'drizzle-orm'
 import { useDb } from '../../utils/db'
 
-defineRouteMeta({ openAPI: { tags: ['service'], summary: 'Service health', responses: { 200: { description: '{ status, database, records, version }' } } } })
+defineRouteMeta({
+  openAPI: {
+    tags: ['service'],
+    summary: 'Service health',
+    responses: { 200: { description: '{ status, database, records, version }' } }
+  }
+})
 
 export default defineEventHandler(async () => {
   const db = await useDb()

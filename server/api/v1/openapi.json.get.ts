@@ -4,11 +4,22 @@ defineRouteMeta({ openAPI: { tags: ['service'], summary: 'This OpenAPI 3 documen
 
 /** Nitro builds the document from every route's defineRouteMeta; this keeps the public /api/v1 part. */
 export default defineEventHandler(async (event) => {
-  const full = await event.$fetch<{ openapi: string, info: object, paths: Record<string, unknown>, components?: object }>('/_openapi.json')
-  const paths = Object.fromEntries(Object.entries(full.paths).filter(([p]) => p.startsWith('/api/v1/'))) as Record<string, Record<string, { requestBody?: unknown }>>
+  const full = await event.$fetch<{
+    openapi: string
+    info: object
+    paths: Record<string, unknown>
+    components?: object
+  }>('/_openapi.json')
+  const paths = Object.fromEntries(Object.entries(full.paths).filter(([p]) => p.startsWith('/api/v1/'))) as Record<
+    string,
+    Record<string, { requestBody?: unknown }>
+  >
   // Request schemas that live in code (built from the physics bounds) replace the placeholders of the
   // build-time route meta, so the document states the same limits, with units, as the server enforces.
-  for (const [path, schema] of [['/api/v1/model/curve', curveBodySchema], ['/api/v1/model/fit', fitBodySchema]] as const) {
+  for (const [path, schema] of [
+    ['/api/v1/model/curve', curveBodySchema],
+    ['/api/v1/model/fit', fitBodySchema]
+  ] as const) {
     const op = paths[path]?.post
     if (op) op.requestBody = { required: true, content: { 'application/json': { schema } } }
   }

@@ -1,5 +1,10 @@
 import { archiveOverview } from '../../utils/archive'
 
-defineRouteMeta({ openAPI: { tags: ['archive'], summary: 'The archive at a glance: counts, latest publications, (ΔG°, log10 k) of every published record' } })
+defineRouteMeta({
+  openAPI: {
+    tags: ['archive'],
+    summary: 'The archive at a glance: counts, latest publications, (ΔG°, log10 k) of every published record'
+  }
+})
 
 export default defineEventHandler(() => archiveOverview())

@@ -1,6 +1,13 @@
 /** The upload check: header → columns and units, every row → record, every problem by row and column. */
 import { COLUMN_BY_KEY, COLUMNS, parseHeader } from '../../../shared/records/columns'
-import { ingestRow, validateRecord, type Cell, type IngestContext, type RowIssue, type SchemaValidator } from '../../../shared/records/ingest'
+import {
+  ingestRow,
+  validateRecord,
+  type Cell,
+  type IngestContext,
+  type RowIssue,
+  type SchemaValidator
+} from '../../../shared/records/ingest'
 import type { RateRecordV1 } from '../../../shared/records/types'
 import { FileProblem, MAX_ROWS, detectKind, parseCsv, parseJsonRecords, parseXlsx, type Table } from './parse'
 import { structureIssues } from '../structures'
@@ -24,21 +31,54 @@ function checkHeaders (headers: string[]): { keys: (string | null)[], units: Rec
   const units: Record<string, string | undefined> = {}
   const keys = headers.map((h, i) => {
     const raw = String(h ?? '').trim()
-    if (!raw) { issues.push({ row: 1, column: `#${i + 1}`, path: '/header', message: `column ${i + 1} has no header` }); return null }
+    if (!raw) {
+      issues.push({ row: 1, column: `#${i + 1}`, path: '/header', message: `column ${i + 1} has no header` })
+      return null
+    }
     const { key, unit } = parseHeader(raw)
     const def = COLUMN_BY_KEY.get(key)
-    if (!def) { issues.push({ row: 1, column: raw, path: '/header', message: `unknown column "${raw}"` }); return null }
-    if (seen.has(key)) { issues.push({ row: 1, column: raw, path: '/header', message: `column "${key}" appears twice (columns ${seen.get(key)! + 1} and ${i + 1})` }); return null }
+    if (!def) {
+      issues.push({ row: 1, column: raw, path: '/header', message: `unknown column "${raw}"` })
+      return null
+    }
+    if (seen.has(key)) {
+      issues.push({
+        row: 1,
+        column: raw,
+        path: '/header',
+        message: `column "${key}" appears twice (columns ${seen.get(key)! + 1} and ${i + 1})`
+      })
+      return null
+    }
     seen.set(key, i)
-    if (unit && !def.units) issues.push({ row: 1, column: raw, path: '/header', message: `column "${key}" takes no unit` })
-    if (unit && def.units && !def.units.includes(unit)) issues.push({ row: 1, column: raw, path: '/header', message: `unknown unit "${unit}" for ${key}; use one of: ${def.units.join(', ')}` })
-    if (!unit && def.units && def.units.length > 1 && def.kind === 'number') issues.push({ row: 1, column: raw, path: '/header', message: `column "${key}" needs a unit in its header, e.g. "${key} (${def.units[0]})"` })
+    if (unit && !def.units)
+      issues.push({ row: 1, column: raw, path: '/header', message: `column "${key}" takes no unit` })
+    if (unit && def.units && !def.units.includes(unit))
+      issues.push({
+        row: 1,
+        column: raw,
+        path: '/header',
+        message: `unknown unit "${unit}" for ${key}; use one of: ${def.units.join(', ')}`
+      })
+    if (!unit && def.units && def.units.length > 1 && def.kind === 'number')
+      issues.push({
+        row: 1,
+        column: raw,
+        path: '/header',
+        message: `column "${key}" needs a unit in its header, e.g. "${key} (${def.units[0]})"`
+      })
     units[key] = unit ?? def.units?.[0]
     return key
   })
   const unknown = issues.filter(i => i.message.startsWith('unknown column')).map(i => i.column)
-  if (unknown.length) issues.push({ row: 1, path: '/header', message: `known columns are: ${COLUMNS.map(c => c.key).join(', ')}` })
-  if (issues.length) throw new FileProblem(422, unknown.length ? `Unknown column(s): ${unknown.join(', ')}` : 'The header row has problems', issues)
+  if (unknown.length)
+    issues.push({ row: 1, path: '/header', message: `known columns are: ${COLUMNS.map(c => c.key).join(', ')}` })
+  if (issues.length)
+    throw new FileProblem(
+      422,
+      unknown.length ? `Unknown column(s): ${unknown.join(', ')}` : 'The header row has problems',
+      issues
+    )
   return { keys, units }
 }
 
@@ -54,63 +94,129 @@ async function withStructures ({ origins, ...res }: Checked): Promise<Omit<Check
   if (!errors.length && !warnings.length) return res
   const bad = new Set(errors.map(e => e.index))
   const keep = res.records.filter((_, i) => !bad.has(i))
-  const issue = ({ index: _, ...rest }: typeof errors[number]): RowIssue => rest
+  const issue = ({ index: _, ...rest }: (typeof errors)[number]): RowIssue => rest
   const byRow = (a: RowIssue, b: RowIssue) => (a.row ?? 0) - (b.row ?? 0)
   return {
-    ...res, records: keep,
-    issues: [...res.issues, ...errors.map(issue)].sort(byRow).slice(0, MAX_LISTED), issueCount: res.issueCount + errors.length,
-    warnings: [...res.warnings, ...warnings.map(issue)].sort(byRow).slice(0, MAX_LISTED), warningCount: res.warningCount + warnings.length
+    ...res,
+    records: keep,
+    issues: [...res.issues, ...errors.map(issue)].sort(byRow).slice(0, MAX_LISTED),
+    issueCount: res.issueCount + errors.length,
+    warnings: [...res.warnings, ...warnings.map(issue)].sort(byRow).slice(0, MAX_LISTED),
+    warningCount: res.warningCount + warnings.length
   }
 }
 
-function checkTable (t: Table, validate: SchemaValidator, ctx: IngestContext, onProgress?: (done: number) => void): Checked {
-  if (t.rows.length > MAX_ROWS) throw new FileProblem(413, `Too many rows: ${t.rows.length} (at most ${MAX_ROWS} per upload)`, [{ path: '/file', message: 'too many rows' }])
+function checkTable (
+  t: Table,
+  validate: SchemaValidator,
+  ctx: IngestContext,
+  onProgress?: (done: number) => void
+): Checked {
+  if (t.rows.length > MAX_ROWS)
+    throw new FileProblem(413, `Too many rows: ${t.rows.length} (at most ${MAX_ROWS} per upload)`, [
+      { path: '/file', message: 'too many rows' }
+    ])
   const { keys, units } = checkHeaders(t.headers)
   const records: RateRecordV1[] = []
   const origins: Checked['origins'] = []
-  const issues: RowIssue[] = []; const warnings: RowIssue[] = []
-  let issueCount = 0; let warningCount = 0; let derivedCount = 0
+  const issues: RowIssue[] = []
+  const warnings: RowIssue[] = []
+  let issueCount = 0
+  let warningCount = 0
+  let derivedCount = 0
   for (let r = 0; r < t.rows.length; r++) {
     const row = t.rows[r]!
     const cells: Record<string, Cell> = {}
     if (row.length > keys.length && row.slice(keys.length).some(v => v !== null && String(v).trim() !== '')) {
-      issueCount++; if (issues.length < MAX_LISTED) issues.push({ row: r + 2, path: '/row', message: `has ${row.length} cells but the header has ${keys.length} columns` })
+      issueCount++
+      if (issues.length < MAX_LISTED)
+        issues.push({
+          row: r + 2,
+          path: '/row',
+          message: `has ${row.length} cells but the header has ${keys.length} columns`
+        })
       continue
     }
-    keys.forEach((k, i) => { if (k) cells[k] = row[i] })
+    keys.forEach((k, i) => {
+      if (k) cells[k] = row[i]
+    })
     const res = ingestRow(cells, units, validate, ctx)
     derivedCount += res.derived.length
-    for (const i of res.issues) { issueCount++; if (issues.length < MAX_LISTED) issues.push({ ...i, row: r + 2 }) }
-    for (const w of res.warnings) { warningCount++; if (warnings.length < MAX_LISTED) warnings.push({ ...w, row: r + 2 }) }
-    if (res.record) { records.push(res.record); origins.push({ path: '', row: r + 2 }) }
+    for (const i of res.issues) {
+      issueCount++
+      if (issues.length < MAX_LISTED) issues.push({ ...i, row: r + 2 })
+    }
+    for (const w of res.warnings) {
+      warningCount++
+      if (warnings.length < MAX_LISTED) warnings.push({ ...w, row: r + 2 })
+    }
+    if (res.record) {
+      records.push(res.record)
+      origins.push({ path: '', row: r + 2 })
+    }
     if (onProgress && r % 5000 === 0) onProgress(r)
   }
   return { rowCount: t.rows.length, records, origins, issues, issueCount, warnings, warningCount, derivedCount }
 }
 
 /** Checks a whole file; throws FileProblem for problems with the file itself. */
-export async function checkFile (name: string, mediaType: string | undefined, buf: Uint8Array, validate: SchemaValidator, ctx: IngestContext): Promise<CheckResult> {
+export async function checkFile (
+  name: string,
+  mediaType: string | undefined,
+  buf: Uint8Array,
+  validate: SchemaValidator,
+  ctx: IngestContext
+): Promise<CheckResult> {
   const kind = detectKind(name, mediaType)
   if (kind === 'json') {
     const recs = parseJsonRecords(buf)
-    if (recs.length > MAX_ROWS) throw new FileProblem(413, `Too many records: ${recs.length} (at most ${MAX_ROWS} per upload)`, [{ path: '/records', message: 'too many records' }])
-    return { kind, ...await checkRecords(recs, validate, ctx, '/records') }
+    if (recs.length > MAX_ROWS)
+      throw new FileProblem(413, `Too many records: ${recs.length} (at most ${MAX_ROWS} per upload)`, [
+        { path: '/records', message: 'too many records' }
+      ])
+    return { kind, ...(await checkRecords(recs, validate, ctx, '/records')) }
   }
   const table = kind === 'csv' ? parseCsv(buf) : await parseXlsx(buf)
-  return { kind, ...await withStructures(checkTable(table, validate, ctx)) }
+  return { kind, ...(await withStructures(checkTable(table, validate, ctx))) }
 }
 
 /** Canonical records (JSON upload or the API): schema + shared rules, issues addressed by pointer and index. */
-export async function checkRecords (recs: unknown[], validate: SchemaValidator, ctx: IngestContext, base: string): Promise<Omit<CheckResult, 'kind'>> {
+export async function checkRecords (
+  recs: unknown[],
+  validate: SchemaValidator,
+  ctx: IngestContext,
+  base: string
+): Promise<Omit<CheckResult, 'kind'>> {
   const records: RateRecordV1[] = []
   const origins: Checked['origins'] = []
-  const issues: RowIssue[] = []; const warnings: RowIssue[] = []
-  let issueCount = 0; let warningCount = 0
+  const issues: RowIssue[] = []
+  const warnings: RowIssue[] = []
+  let issueCount = 0
+  let warningCount = 0
   recs.forEach((rec, i) => {
     const v = validateRecord(rec, validate, ctx)
-    for (const x of v.issues) { issueCount++; if (issues.length < MAX_LISTED) issues.push({ ...x, row: i + 1, path: `${base}/${i}${x.path === '/' ? '' : x.path}` }) }
-    for (const w of v.warnings) { warningCount++; if (warnings.length < MAX_LISTED) warnings.push({ ...w, row: i + 1, path: `${base}/${i}${w.path}` }) }
-    if (!v.issues.length) { records.push(rec as RateRecordV1); origins.push({ path: `${base}/${i}`, row: i + 1 }) }
+    for (const x of v.issues) {
+      issueCount++
+      if (issues.length < MAX_LISTED)
+        issues.push({ ...x, row: i + 1, path: `${base}/${i}${x.path === '/' ? '' : x.path}` })
+    }
+    for (const w of v.warnings) {
+      warningCount++
+      if (warnings.length < MAX_LISTED) warnings.push({ ...w, row: i + 1, path: `${base}/${i}${w.path}` })
+    }
+    if (!v.issues.length) {
+      records.push(rec as RateRecordV1)
+      origins.push({ path: `${base}/${i}`, row: i + 1 })
+    }
   })
-  return withStructures({ rowCount: recs.length, records, origins, issues, issueCount, warnings, warningCount, derivedCount: 0 })
+  return withStructures({
+    rowCount: recs.length,
+    records,
+    origins,
+    issues,
+    issueCount,
+    warnings,
+    warningCount,
+    derivedCount: 0
+  })
 }

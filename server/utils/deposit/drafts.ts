@@ -16,7 +16,10 @@ import { dataDirectory } from '../fixity'
 
 async function touchVersion (versionId: number): Promise<void> {
   const db = await useDb()
-  const [v] = await db.select({ datasetId: schema.datasetVersions.datasetId }).from(schema.datasetVersions).where(eq(schema.datasetVersions.id, versionId))
+  const [v] = await db
+    .select({ datasetId: schema.datasetVersions.datasetId })
+    .from(schema.datasetVersions)
+    .where(eq(schema.datasetVersions.id, versionId))
   if (v) await afterDatasetChange(v.datasetId)
 }
 
@@ -27,27 +30,53 @@ export function recordValidator (): SchemaValidator {
 export async function ingestContext (): Promise<IngestContext> {
   const db = await useDb()
   const rows = await db.select().from(schema.solvents)
-  return { solvents: new Map(rows.map(r => [r.name.toLowerCase(), { name: r.name, permittivity: r.permittivity, refractiveIndex: r.refractiveIndex, viscosity: r.viscosity }])) }
+  return {
+    solvents: new Map(
+      rows.map(r => [
+        r.name.toLowerCase(),
+        { name: r.name, permittivity: r.permittivity, refractiveIndex: r.refractiveIndex, viscosity: r.viscosity }
+      ])
+    )
+  }
 }
 
 /**
  * The dataset's newest version, which the viewer (a member of the dataset's lab) may change:
  * 404 for other labs, 409 when it is under review or published.
  */
-export async function requireEditableDraft (event: H3Event, datasetId: number): Promise<{ viewer: Viewer, dataset: typeof schema.datasets.$inferSelect, version: typeof schema.datasetVersions.$inferSelect }> {
+export async function requireEditableDraft (
+  event: H3Event,
+  datasetId: number
+): Promise<{
+  viewer: Viewer
+  dataset: typeof schema.datasets.$inferSelect
+  version: typeof schema.datasetVersions.$inferSelect
+}> {
   const viewer = await requireUser(event)
   const db = await useDb()
   const [dataset] = await db.select().from(schema.datasets).where(eq(schema.datasets.id, datasetId))
   if (!dataset || !viewer.labIds.includes(dataset.labId)) throw httpError(404, MESSAGES.notFound)
-  const [version] = await db.select().from(schema.datasetVersions).where(eq(schema.datasetVersions.datasetId, datasetId)).orderBy(desc(schema.datasetVersions.versionNumber)).limit(1)
+  const [version] = await db
+    .select()
+    .from(schema.datasetVersions)
+    .where(eq(schema.datasetVersions.datasetId, datasetId))
+    .orderBy(desc(schema.datasetVersions.versionNumber))
+    .limit(1)
   if (!version) throw httpError(404, MESSAGES.notFound)
   if (version.state === 'published' || version.state === 'withdrawn') throw httpError(409, MESSAGES.published)
-  if (version.state === 'submitted') throw httpError(409, 'This version is under review; it can be changed again if the curator returns it')
+  if (version.state === 'submitted')
+    throw httpError(409, 'This version is under review; it can be changed again if the curator returns it')
   return { viewer, dataset, version }
 }
 
 /** Keeps an uploaded original under DATA_DIR with its sha256; the key is ours, never the file name. */
-export async function storeOriginal (versionId: number | null, uploadedBy: string, name: string, mediaType: string | undefined, buf: Uint8Array) {
+export async function storeOriginal (
+  versionId: number | null,
+  uploadedBy: string,
+  name: string,
+  mediaType: string | undefined,
+  buf: Uint8Array
+) {
   const sha256 = createHash('sha256').update(buf).digest('hex')
   const ext = (name.match(/\.(csv|tsv|txt|xlsx|json)$/i)?.[1] ?? 'bin').toLowerCase()
   const storageKey = `uploads/${versionId ?? 'none'}/${randomUUID()}.${ext}`
@@ -56,7 +85,18 @@ export async function storeOriginal (versionId: number | null, uploadedBy: strin
   await mkdir(join(path, '..'), { recursive: true })
   await writeFile(path, buf)
   const db = await useDb()
-  const [row] = await db.insert(schema.uploadedFiles).values({ versionId, uploadedBy, name: name.slice(0, 255), size: buf.byteLength, sha256, storageKey, mediaType: mediaType ?? null }).returning()
+  const [row] = await db
+    .insert(schema.uploadedFiles)
+    .values({
+      versionId,
+      uploadedBy,
+      name: name.slice(0, 255),
+      size: buf.byteLength,
+      sha256,
+      storageKey,
+      mediaType: mediaType ?? null
+    })
+    .returning()
   return row!
 }
 
@@ -67,16 +107,36 @@ export async function readOriginal (storageKey: string): Promise<Uint8Array> {
 }
 
 /** Appends (or, with replace, swaps in) records of a draft version in one transaction; all or nothing. */
-export async function writeRecords (versionId: number, records: RateRecordV1[], mode: 'append' | 'replace', first?: (tx: Tx) => Promise<void>): Promise<number> {
+export async function writeRecords (
+  versionId: number,
+  records: RateRecordV1[],
+  mode: 'append' | 'replace',
+  first?: (tx: Tx) => Promise<void>
+): Promise<number> {
   const db = await useDb()
   const n = await db.transaction(async (tx) => {
     if (first) await first(tx) // e.g. claim the upload, in the same transaction as the rows
     if (mode === 'replace') await tx.delete(schema.rateRecords).where(eq(schema.rateRecords.versionId, versionId))
-    const [{ maxPos }] = await tx.select({ maxPos: sql<number>`coalesce(max(position), 0)` }).from(schema.rateRecords).where(eq(schema.rateRecords.versionId, versionId)) as [{ maxPos: number }]
-    const rows = records.map((data, i) => ({ versionId, position: maxPos + i + 1, recordKey: randomUUID(), data: data as unknown as Record<string, unknown>, ...recordColumns(data) }))
+    const [{ maxPos }] = (await tx
+      .select({ maxPos: sql<number>`coalesce(max(position), 0)` })
+      .from(schema.rateRecords)
+      .where(eq(schema.rateRecords.versionId, versionId))) as [{ maxPos: number }]
+    const rows = records.map((data, i) => ({
+      versionId,
+      position: maxPos + i + 1,
+      recordKey: randomUUID(),
+      data: data as unknown as Record<string, unknown>,
+      ...recordColumns(data)
+    }))
     for (let i = 0; i < rows.length; i += 500) await tx.insert(schema.rateRecords).values(rows.slice(i, i + 500))
-    const [{ n }] = await tx.select({ n: sql<number>`count(*)` }).from(schema.rateRecords).where(eq(schema.rateRecords.versionId, versionId)) as [{ n: number }]
-    await tx.update(schema.datasetVersions).set({ recordCount: n, updatedAt: new Date() }).where(eq(schema.datasetVersions.id, versionId))
+    const [{ n }] = (await tx
+      .select({ n: sql<number>`count(*)` })
+      .from(schema.rateRecords)
+      .where(eq(schema.rateRecords.versionId, versionId))) as [{ n: number }]
+    await tx
+      .update(schema.datasetVersions)
+      .set({ recordCount: n, updatedAt: new Date() })
+      .where(eq(schema.datasetVersions.id, versionId))
     return n
   })
   await touchVersion(versionId)
@@ -86,10 +146,20 @@ export async function writeRecords (versionId: number, records: RateRecordV1[], 
 export async function deleteRecords (versionId: number, ids: number[]): Promise<number> {
   const db = await useDb()
   const left = await db.transaction(async (tx) => {
-    const gone = await tx.delete(schema.rateRecords).where(and(eq(schema.rateRecords.versionId, versionId), inArray(schema.rateRecords.id, ids))).returning({ id: schema.rateRecords.id })
-    if (gone.length !== ids.length) throw httpError(404, `${ids.length - gone.length} of the records are not in this draft; nothing was deleted`)
-    const [{ n }] = await tx.select({ n: sql<number>`count(*)` }).from(schema.rateRecords).where(eq(schema.rateRecords.versionId, versionId)) as [{ n: number }]
-    await tx.update(schema.datasetVersions).set({ recordCount: n, updatedAt: new Date() }).where(eq(schema.datasetVersions.id, versionId))
+    const gone = await tx
+      .delete(schema.rateRecords)
+      .where(and(eq(schema.rateRecords.versionId, versionId), inArray(schema.rateRecords.id, ids)))
+      .returning({ id: schema.rateRecords.id })
+    if (gone.length !== ids.length)
+      throw httpError(404, `${ids.length - gone.length} of the records are not in this draft; nothing was deleted`)
+    const [{ n }] = (await tx
+      .select({ n: sql<number>`count(*)` })
+      .from(schema.rateRecords)
+      .where(eq(schema.rateRecords.versionId, versionId))) as [{ n: number }]
+    await tx
+      .update(schema.datasetVersions)
+      .set({ recordCount: n, updatedAt: new Date() })
+      .where(eq(schema.datasetVersions.id, versionId))
     return n
   })
   await touchVersion(versionId)
@@ -98,8 +168,11 @@ export async function deleteRecords (versionId: number, ids: number[]): Promise<
 
 export async function replaceRecord (versionId: number, recordId: number, data: RateRecordV1): Promise<void> {
   const db = await useDb()
-  const rows = await db.update(schema.rateRecords).set({ data: data as unknown as Record<string, unknown>, ...recordColumns(data), updatedAt: new Date() })
-    .where(and(eq(schema.rateRecords.id, recordId), eq(schema.rateRecords.versionId, versionId))).returning({ id: schema.rateRecords.id })
+  const rows = await db
+    .update(schema.rateRecords)
+    .set({ data: data as unknown as Record<string, unknown>, ...recordColumns(data), updatedAt: new Date() })
+    .where(and(eq(schema.rateRecords.id, recordId), eq(schema.rateRecords.versionId, versionId)))
+    .returning({ id: schema.rateRecords.id })
   if (!rows.length) throw httpError(404, 'No such record in this draft')
   await touchVersion(versionId)
 }

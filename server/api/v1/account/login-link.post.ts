@@ -3,10 +3,20 @@ import { emailSchema, sendSignInLink } from '../../../utils/accounts'
 import { limitRate } from '../../../utils/rate-limit'
 import { readValidated } from '../../../utils/validation'
 
-defineRouteMeta({ openAPI: { tags: ['account'], summary: 'E-mail a one-time sign-in link (answers 202 whether or not the address is known)' } })
+defineRouteMeta({
+  openAPI: {
+    tags: ['account'],
+    summary: 'E-mail a one-time sign-in link (answers 202 whether or not the address is known)'
+  }
+})
 
 export default defineEventHandler(async (event) => {
-  const { email } = await readValidated<{ email: string }>(event, { type: 'object', required: ['email'], additionalProperties: false, properties: { email: emailSchema } })
+  const { email } = await readValidated<{ email: string }>(event, {
+    type: 'object',
+    required: ['email'],
+    additionalProperties: false,
+    properties: { email: emailSchema }
+  })
   limitRate(event, `login-link|${normalizeEmail(email)}`, 5, 900)
   await sendSignInLink(email)
   setResponseStatus(event, 202)

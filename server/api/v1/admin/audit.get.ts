@@ -7,7 +7,19 @@ defineRouteMeta({ openAPI: { tags: ['admin'], summary: 'The audit trail, newest 
 export default defineEventHandler(async (event) => {
   await requireRole(event, 'admin')
   const db = await useDb()
-  const items = await db.select({ id: schema.auditEvents.id, at: schema.auditEvents.createdAt, action: schema.auditEvents.action, targetType: schema.auditEvents.targetType, targetId: schema.auditEvents.targetId, detail: schema.auditEvents.detail, actor: schema.users.email })
-    .from(schema.auditEvents).leftJoin(schema.users, eq(schema.users.id, schema.auditEvents.actorId)).orderBy(desc(schema.auditEvents.id)).limit(500)
+  const items = await db
+    .select({
+      id: schema.auditEvents.id,
+      at: schema.auditEvents.createdAt,
+      action: schema.auditEvents.action,
+      targetType: schema.auditEvents.targetType,
+      targetId: schema.auditEvents.targetId,
+      detail: schema.auditEvents.detail,
+      actor: schema.users.email
+    })
+    .from(schema.auditEvents)
+    .leftJoin(schema.users, eq(schema.users.id, schema.auditEvents.actorId))
+    .orderBy(desc(schema.auditEvents.id))
+    .limit(500)
   return { items }
 })

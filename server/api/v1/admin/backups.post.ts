@@ -3,12 +3,21 @@ import { audit } from '../../../utils/audit'
 import { backup } from '../../../utils/backup'
 import { dataDirectory } from '../../../utils/fixity'
 
-defineRouteMeta({ openAPI: { tags: ['admin'], summary: 'Take an online backup of the database and stored files into a dated, checksummed folder (admin)' } })
+defineRouteMeta({
+  openAPI: {
+    tags: ['admin'],
+    summary: 'Take an online backup of the database and stored files into a dated, checksummed folder (admin)'
+  }
+})
 
 export default defineEventHandler(async (event) => {
   const admin = await requireRole(event, 'admin')
   const rc = useRuntimeConfig()
-  const res = await backup({ databaseUrl: rc.databaseUrl, dataDir: dataDirectory(), backupDir: process.env.NUXT_BACKUP_DIR ?? `${dataDirectory()}/backups` })
+  const res = await backup({
+    databaseUrl: rc.databaseUrl,
+    dataDir: dataDirectory(),
+    backupDir: process.env.NUXT_BACKUP_DIR ?? `${dataDirectory()}/backups`
+  })
   await audit(admin.id, 'admin.backup', 'system', 'database', { folder: res.folder, records: res.records })
   return res
 })

@@ -1,7 +1,12 @@
 import { requireRole } from '../../../utils/auth'
 import { localRegistrarState } from '../../../utils/registrar'
 
-defineRouteMeta({ openAPI: { tags: ['admin'], summary: 'The local identifier registrar: its URL and the identifiers it holds (admin; null with a real registrar)' } })
+defineRouteMeta({
+  openAPI: {
+    tags: ['admin'],
+    summary: 'The local identifier registrar: its URL and the identifiers it holds (admin; null with a real registrar)'
+  }
+})
 
 export default defineEventHandler(async (event) => {
   await requireRole(event, 'admin')

@@ -2,7 +2,33 @@ import { getViewer } from '../../../utils/auth'
 import { datasetView, recordDetailOf } from '../../../utils/dataset-view'
 import { intParam } from '../../../utils/params'
 
-defineRouteMeta({ openAPI: { tags: ['archive'], parameters: [{ in: 'path', name: 'id', required: true, schema: { type: 'integer', minimum: 1 } }, { in: 'query', name: 'records', description: 'full (default): each record with its JSON; summary: the table columns only', schema: { type: 'string', enum: ['full', 'summary'] } }, { in: 'query', name: 'page', description: 'Page of records (1-based); recordPage.total says how many there are', schema: { type: 'integer', minimum: 1 } }, { in: 'query', name: 'pageSize', description: 'Records per page, at most 10 000 (the default)', schema: { type: 'integer', minimum: 1, maximum: 10000 } }], summary: 'A dataset: its newest published version (or newest the caller may see), version list and records' } })
+defineRouteMeta({
+  openAPI: {
+    tags: ['archive'],
+    parameters: [
+      { in: 'path', name: 'id', required: true, schema: { type: 'integer', minimum: 1 } },
+      {
+        in: 'query',
+        name: 'records',
+        description: 'full (default): each record with its JSON; summary: the table columns only',
+        schema: { type: 'string', enum: ['full', 'summary'] }
+      },
+      {
+        in: 'query',
+        name: 'page',
+        description: 'Page of records (1-based); recordPage.total says how many there are',
+        schema: { type: 'integer', minimum: 1 }
+      },
+      {
+        in: 'query',
+        name: 'pageSize',
+        description: 'Records per page, at most 10 000 (the default)',
+        schema: { type: 'integer', minimum: 1, maximum: 10000 }
+      }
+    ],
+    summary: 'A dataset: its newest published version (or newest the caller may see), version list and records'
+  }
+})
 
 export default defineEventHandler(async (event) => {
   const id = intParam(event, 'id')

@@ -3,7 +3,12 @@ import { datasetMetaSchema, updateMetadata, type DatasetMetaInput } from '../../
 import { intParam } from '../../../utils/params'
 import { readValidated } from '../../../utils/validation'
 
-defineRouteMeta({ openAPI: { tags: ['deposit'], summary: 'Change a draft\'s citation metadata (DataCite-compatible; ORCID check digits and DOI syntax verified)' } })
+defineRouteMeta({
+  openAPI: {
+    tags: ['deposit'],
+    summary: 'Change a draft\'s citation metadata (DataCite-compatible; ORCID check digits and DOI syntax verified)'
+  }
+})
 
 export default defineEventHandler(async (event) => {
   const id = intParam(event, 'id')

@@ -7,14 +7,28 @@ import { intParam } from '../../../utils/params'
 import { readValidated } from '../../../utils/validation'
 import { solventFields } from '../../../utils/solvents'
 
-defineRouteMeta({ openAPI: { tags: ['reference'], summary: 'Edit a solvent row (admins; audited). Records keep the values they were computed with.' } })
+defineRouteMeta({
+  openAPI: {
+    tags: ['reference'],
+    summary: 'Edit a solvent row (admins; audited). Records keep the values they were computed with.'
+  }
+})
 
 export default defineEventHandler(async (event) => {
   const id = intParam(event, 'id')
   const v = await requireRole(event, 'admin')
-  const b = await readValidated<Record<string, unknown>>(event, { type: 'object', additionalProperties: false, minProperties: 1, properties: solventFields })
+  const b = await readValidated<Record<string, unknown>>(event, {
+    type: 'object',
+    additionalProperties: false,
+    minProperties: 1,
+    properties: solventFields
+  })
   const db = await useDb()
-  const rows = await db.update(schema.solvents).set({ ...b, updatedAt: new Date() }).where(eq(schema.solvents.id, id)).returning()
+  const rows = await db
+    .update(schema.solvents)
+    .set({ ...b, updatedAt: new Date() })
+    .where(eq(schema.solvents.id, id))
+    .returning()
   if (!rows.length) throw httpError(404, 'No such solvent')
   await audit(v.id, 'solvent.edited', 'solvent', id, b)
   return rows[0]

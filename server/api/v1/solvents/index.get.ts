@@ -1,6 +1,11 @@
 import { useDb, schema } from '../../../utils/db'
 
-defineRouteMeta({ openAPI: { tags: ['reference'], summary: 'Solvent reference table (permittivity, refractive index, viscosity, source)' } })
+defineRouteMeta({
+  openAPI: {
+    tags: ['reference'],
+    summary: 'Solvent reference table (permittivity, refractive index, viscosity, source)'
+  }
+})
 
 export default defineEventHandler(async () => {
   const db = await useDb()

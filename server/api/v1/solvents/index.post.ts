@@ -9,7 +9,15 @@ defineRouteMeta({ openAPI: { tags: ['reference'], summary: 'Add a solvent (admin
 
 export default defineEventHandler(async (event) => {
   const v = await requireRole(event, 'admin')
-  const b = await readValidated<{ name: string, permittivity: number, refractiveIndex: number, source: string }>(event, { type: 'object', additionalProperties: false, required: ['name', 'permittivity', 'refractiveIndex', 'source'], properties: solventFields })
+  const b = await readValidated<{ name: string, permittivity: number, refractiveIndex: number, source: string }>(
+    event,
+    {
+      type: 'object',
+      additionalProperties: false,
+      required: ['name', 'permittivity', 'refractiveIndex', 'source'],
+      properties: solventFields
+    }
+  )
   const db = await useDb()
   const [row] = await db.insert(schema.solvents).values(b).onConflictDoNothing().returning()
   if (!row) throw httpError(409, 'A solvent with this name exists', [{ path: '/name', message: 'is taken' }])

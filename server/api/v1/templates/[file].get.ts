@@ -1,7 +1,20 @@
 import { csvTemplate, jsonTemplate, xlsxTemplate } from '../../../utils/deposit/templates'
 import { httpError } from '../../../utils/errors'
 
-defineRouteMeta({ openAPI: { tags: ['deposit'], summary: 'Upload templates: records.csv, records.xlsx (with a notes sheet) or records.json', parameters: [{ in: 'path', name: 'file', required: true, schema: { type: 'string', enum: ['records.csv', 'records.xlsx', 'records.json'] } }] } })
+defineRouteMeta({
+  openAPI: {
+    tags: ['deposit'],
+    summary: 'Upload templates: records.csv, records.xlsx (with a notes sheet) or records.json',
+    parameters: [
+      {
+        in: 'path',
+        name: 'file',
+        required: true,
+        schema: { type: 'string', enum: ['records.csv', 'records.xlsx', 'records.json'] }
+      }
+    ]
+  }
+})
 
 const TEMPLATES: Record<string, { type: string, make: () => unknown }> = {
   'records.csv': { type: 'text/csv; charset=utf-8', make: csvTemplate },

@@ -3,10 +3,20 @@ import { emailSchema, sendPasswordReset } from '../../../../utils/accounts'
 import { limitRate } from '../../../../utils/rate-limit'
 import { readValidated } from '../../../../utils/validation'
 
-defineRouteMeta({ openAPI: { tags: ['account'], summary: 'E-mail a password-reset link (answers 202 whether or not the address is known)' } })
+defineRouteMeta({
+  openAPI: {
+    tags: ['account'],
+    summary: 'E-mail a password-reset link (answers 202 whether or not the address is known)'
+  }
+})
 
 export default defineEventHandler(async (event) => {
-  const { email } = await readValidated<{ email: string }>(event, { type: 'object', required: ['email'], additionalProperties: false, properties: { email: emailSchema } })
+  const { email } = await readValidated<{ email: string }>(event, {
+    type: 'object',
+    required: ['email'],
+    additionalProperties: false,
+    properties: { email: emailSchema }
+  })
   limitRate(event, `reset|${normalizeEmail(email)}`, 5, 900)
   await sendPasswordReset(email)
   setResponseStatus(event, 202)

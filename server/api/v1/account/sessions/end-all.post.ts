@@ -2,7 +2,14 @@ import { requireUser } from '../../../../utils/auth'
 import { audit } from '../../../../utils/audit'
 import { endAllSessions } from '../../../../utils/sessions'
 
-defineRouteMeta({ openAPI: { tags: ['account'], summary: 'Sign out everywhere: every session of this account ends, this one included (API tokens are revoked separately)', responses: { 200: { description: 'Done' }, 401: { description: 'Not signed in' } } } })
+defineRouteMeta({
+  openAPI: {
+    tags: ['account'],
+    summary:
+      'Sign out everywhere: every session of this account ends, this one included (API tokens are revoked separately)',
+    responses: { 200: { description: 'Done' }, 401: { description: 'Not signed in' } }
+  }
+})
 
 export default defineEventHandler(async (event) => {
   const v = await requireUser(event)

@@ -11,8 +11,14 @@ defineRouteMeta({ openAPI: { tags: ['admin'], summary: 'Change a user\'s role (a
 export default defineEventHandler(async (event) => {
   const id = getRouterParam(event, 'id') ?? ''
   const admin = await requireRole(event, 'admin')
-  const { role } = await readValidated<{ role: 'contributor' | 'curator' | 'admin' }>(event, { type: 'object', required: ['role'], additionalProperties: false, properties: { role: { enum: ['contributor', 'curator', 'admin'] } } })
-  if (id === admin.id && role !== 'admin') throw httpError(409, 'You cannot remove your own admin role; ask another admin')
+  const { role } = await readValidated<{ role: 'contributor' | 'curator' | 'admin' }>(event, {
+    type: 'object',
+    required: ['role'],
+    additionalProperties: false,
+    properties: { role: { enum: ['contributor', 'curator', 'admin'] } }
+  })
+  if (id === admin.id && role !== 'admin')
+    throw httpError(409, 'You cannot remove your own admin role; ask another admin')
   const db = await useDb()
   const [before] = await db.select({ role: schema.users.role }).from(schema.users).where(eq(schema.users.id, id))
   if (!before) throw httpError(404, 'No such user')

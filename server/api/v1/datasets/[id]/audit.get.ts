@@ -4,7 +4,9 @@ import { httpError, MESSAGES } from '../../../../utils/errors'
 import { intParam } from '../../../../utils/params'
 import { datasetAudit } from '../../../../utils/audit'
 
-defineRouteMeta({ openAPI: { tags: ['review'], summary: 'The audit trail of one dataset (its lab, curators and admins)' } })
+defineRouteMeta({
+  openAPI: { tags: ['review'], summary: 'The audit trail of one dataset (its lab, curators and admins)' }
+})
 
 export default defineEventHandler(async (event) => {
   const id = intParam(event, 'id')

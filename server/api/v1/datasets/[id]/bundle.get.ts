@@ -8,11 +8,23 @@ import { publicUrl } from '../../../../utils/mail'
 import { intParam } from '../../../../utils/params'
 import { coerceNumbers, queryValidated } from '../../../../utils/validation'
 
-defineRouteMeta({ openAPI: { tags: ['bundles'], summary: 'Download a dataset version (default: newest published) as a BagIt ZIP with CSV, JSON, schemas, README, citations and checksums', parameters: [{ in: 'query', name: 'version', schema: { type: 'integer' } }], responses: { 200: { description: 'application/zip' } } } })
+defineRouteMeta({
+  openAPI: {
+    tags: ['bundles'],
+    summary:
+      'Download a dataset version (default: newest published) as a BagIt ZIP with CSV, JSON, schemas, README, citations and checksums',
+    parameters: [{ in: 'query', name: 'version', schema: { type: 'integer' } }],
+    responses: { 200: { description: 'application/zip' } }
+  }
+})
 
 export default defineEventHandler(async (event) => {
   const id = intParam(event, 'id')
-  const q = queryValidated<{ version?: number }>(event, { type: 'object', additionalProperties: false, properties: { version: { type: 'integer', minimum: 1 } } }, coerceNumbers(['version']))
+  const q = queryValidated<{ version?: number }>(
+    event,
+    { type: 'object', additionalProperties: false, properties: { version: { type: 'integer', minimum: 1 } } },
+    coerceNumbers(['version'])
+  )
   const viewer = await getViewer(event)
   const { dataset, versions } = await getDataset(viewer, id)
   const v = q.version === undefined ? defaultVersion(versions) : versions.find(x => x.versionNumber === q.version)
@@ -20,5 +32,13 @@ export default defineEventHandler(async (event) => {
   const member = !!viewer && (viewer.role === 'admin' || viewer.labIds.includes(dataset.labId))
   if (v.state === 'withdrawn') throw httpError(410, 'This dataset was withdrawn; its records are no longer offered')
   if (isUnderEmbargo(v) && !member) throw httpError(403, `Under embargo until ${v.embargoUntil}`)
-  return sendBundle(event, { where: eq(schema.rateRecords.versionId, v.id), description: `dataset ${id}, version ${v.versionNumber}: ${v.title}`, source: publicUrl(`/datasets/${id}?version=${v.versionNumber}`) }, `crosspoint-${id}-v${v.versionNumber}.zip`)
+  return sendBundle(
+    event,
+    {
+      where: eq(schema.rateRecords.versionId, v.id),
+      description: `dataset ${id}, version ${v.versionNumber}: ${v.title}`,
+      source: publicUrl(`/datasets/${id}?version=${v.versionNumber}`)
+    },
+    `crosspoint-${id}-v${v.versionNumber}.zip`
+  )
 })

@@ -2,7 +2,13 @@ import { requireEditableDraft } from '../../../../utils/deposit/drafts'
 import { submitDraft } from '../../../../utils/deposit/metadata'
 import { intParam } from '../../../../utils/params'
 
-defineRouteMeta({ openAPI: { tags: ['deposit'], summary: 'Submit a draft (or a returned version) for review; refused with every problem listed while anything does not validate' } })
+defineRouteMeta({
+  openAPI: {
+    tags: ['deposit'],
+    summary:
+      'Submit a draft (or a returned version) for review; refused with every problem listed while anything does not validate'
+  }
+})
 
 export default defineEventHandler(async (event) => {
   const id = intParam(event, 'id')

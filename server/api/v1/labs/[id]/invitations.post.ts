@@ -9,7 +9,12 @@ defineRouteMeta({ openAPI: { tags: ['labs'], summary: 'Invite someone to the lab
 export default defineEventHandler(async (event) => {
   const id = intParam(event, 'id')
   const v = await requireLabLead(event, id)
-  const { email } = await readValidated<{ email: string }>(event, { type: 'object', required: ['email'], additionalProperties: false, properties: { email: { type: 'string', format: 'email', maxLength: 200 } } })
+  const { email } = await readValidated<{ email: string }>(event, {
+    type: 'object',
+    required: ['email'],
+    additionalProperties: false,
+    properties: { email: { type: 'string', format: 'email', maxLength: 200 } }
+  })
   limitRate(event, `invite|${v.id}`, 30, 3600)
   await inviteToLab(v, id, email)
   setResponseStatus(event, 202)

@@ -5,11 +5,26 @@ import { intParam } from '../../../../utils/params'
 import { similarTo } from '../../../../utils/search'
 import { coerceNumbers, queryValidated } from '../../../../utils/validation'
 
-defineRouteMeta({ openAPI: { tags: ['records'], summary: 'Records of similar systems, with the score and why (closeness in ΔG°, solvent polarity, distance, temperature, process, linkage, and donor/acceptor structures by Morgan-fingerprint Tanimoto, or names where structures are missing)', parameters: [{ in: 'query', name: 'limit', schema: { type: 'integer', maximum: 100 } }] } })
+defineRouteMeta({
+  openAPI: {
+    tags: ['records'],
+    summary:
+      'Records of similar systems, with the score and why (closeness in ΔG°, solvent polarity, distance, temperature, process, linkage, and donor/acceptor structures by Morgan-fingerprint Tanimoto, or names where structures are missing)',
+    parameters: [{ in: 'query', name: 'limit', schema: { type: 'integer', maximum: 100 } }]
+  }
+})
 
 export default defineEventHandler(async (event) => {
   const id = intParam(event, 'id')
-  const { limit } = queryValidated<{ limit?: number }>(event, { type: 'object', additionalProperties: false, properties: { limit: { type: 'integer', minimum: 1, maximum: 100 } } }, coerceNumbers(['limit']))
+  const { limit } = queryValidated<{ limit?: number }>(
+    event,
+    {
+      type: 'object',
+      additionalProperties: false,
+      properties: { limit: { type: 'integer', minimum: 1, maximum: 100 } }
+    },
+    coerceNumbers(['limit'])
+  )
   const viewer = await getViewer(event)
   await getRecord(viewer, id) // 404 unless the viewer may see it
   const hits = await similarTo(id, viewer, limit ?? 10)

@@ -4,12 +4,25 @@ import { httpError } from '../../../../../utils/errors'
 import { intParam } from '../../../../../utils/params'
 import { readValidated } from '../../../../../utils/validation'
 
-defineRouteMeta({ openAPI: { tags: ['deposit'], summary: 'Add records in the open format (rate-record.v1) to a draft: all or none', requestBody: { content: { 'application/json': { schema: { type: 'object', properties: { records: { type: 'array' } } } } } } } })
+defineRouteMeta({
+  openAPI: {
+    tags: ['deposit'],
+    summary: 'Add records in the open format (rate-record.v1) to a draft: all or none',
+    requestBody: {
+      content: { 'application/json': { schema: { type: 'object', properties: { records: { type: 'array' } } } } }
+    }
+  }
+})
 
 export default defineEventHandler(async (event) => {
   const id = intParam(event, 'id')
   const { version } = await requireEditableDraft(event, id)
-  const { records } = await readValidated<{ records: unknown[] }>(event, { type: 'object', required: ['records'], additionalProperties: false, properties: { records: { type: 'array', minItems: 1, maxItems: 10000 } } })
+  const { records } = await readValidated<{ records: unknown[] }>(event, {
+    type: 'object',
+    required: ['records'],
+    additionalProperties: false,
+    properties: { records: { type: 'array', minItems: 1, maxItems: 10000 } }
+  })
   const res = await checkRecords(records, recordValidator(), await ingestContext(), '/records')
   if (res.issueCount) throw httpError(422, `${res.issueCount} problem(s) in the records; nothing was added`, res.issues)
   const total = await writeRecords(version.id, res.records, 'append')

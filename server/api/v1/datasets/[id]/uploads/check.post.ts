@@ -1,18 +1,39 @@
 import type { H3Event } from 'h3'
 import { checkFile } from '../../../../../utils/deposit/check'
-import { ingestContext, recordValidator, requireEditableDraft, storeOriginal } from '../../../../../utils/deposit/drafts'
+import {
+  ingestContext,
+  recordValidator,
+  requireEditableDraft,
+  storeOriginal
+} from '../../../../../utils/deposit/drafts'
 import { FileProblem, MAX_FILE_BYTES } from '../../../../../utils/deposit/parse'
 import { httpError } from '../../../../../utils/errors'
 import { discardBody, readUploadedFile } from '../../../../../utils/body'
 import { intParam } from '../../../../../utils/params'
 
-defineRouteMeta({ openAPI: { tags: ['deposit'], summary: 'Step 1 of an upload: check a CSV, XLSX or JSON file (multipart field "file") and keep it; nothing is added yet', responses: { 200: { description: '{ upload, rowCount, acceptedCount, issues, warnings, preview }' }, 413: { description: 'File or row count too large' }, 422: { description: 'Problems with the file itself' } } } })
+defineRouteMeta({
+  openAPI: {
+    tags: ['deposit'],
+    summary:
+      'Step 1 of an upload: check a CSV, XLSX or JSON file (multipart field "file") and keep it; nothing is added yet',
+    responses: {
+      200: { description: '{ upload, rowCount, acceptedCount, issues, warnings, preview }' },
+      413: { description: 'File or row count too large' },
+      422: { description: 'Problems with the file itself' }
+    }
+  }
+})
 
 export default defineEventHandler(async (event) => {
   const id = intParam(event, 'id')
   let draft
-  try { draft = await requireEditableDraft(event, id) }
-  catch (e) { await discardBody(event, MAX_FILE_BYTES + 65536); throw e }
+  try {
+    draft = await requireEditableDraft(event, id)
+  }
+  catch (e) {
+    await discardBody(event, MAX_FILE_BYTES + 65536)
+    throw e
+  }
   const { viewer, version } = draft
   // at most MAX_CHECKS_AT_ONCE files are read and checked at once on this instance: memory stays bounded
   if (checksRunning >= MAX_CHECKS_AT_ONCE) {
@@ -24,7 +45,9 @@ export default defineEventHandler(async (event) => {
   try {
     return await checkUpload(event, viewer.id, version.id)
   }
-  finally { checksRunning-- }
+  finally {
+    checksRunning--
+  }
 })
 
 const MAX_CHECKS_AT_ONCE = 4
@@ -39,9 +62,22 @@ async function checkUpload (event: H3Event, viewerId: string, versionId: number)
     const stored = res.issueCount ? null : await storeOriginal(versionId, viewerId, file.filename, file.type, buf)
     return {
       upload: stored && { id: stored.id, name: stored.name, size: stored.size, sha256: stored.sha256 },
-      kind: res.kind, rowCount: res.rowCount, acceptedCount: res.records.length, derivedCount: res.derivedCount,
-      issueCount: res.issueCount, issues: res.issues, warningCount: res.warningCount, warnings: res.warnings,
-      preview: res.records.slice(0, 2000).map(r => ({ deltaG: r.drivingForce?.value ?? null, log10Rate: Math.log10(r.rate.value), donor: r.system.donor.name, acceptor: r.system.acceptor.name }))
+      kind: res.kind,
+      rowCount: res.rowCount,
+      acceptedCount: res.records.length,
+      derivedCount: res.derivedCount,
+      issueCount: res.issueCount,
+      issues: res.issues,
+      warningCount: res.warningCount,
+      warnings: res.warnings,
+      preview: res.records
+        .slice(0, 2000)
+        .map(r => ({
+          deltaG: r.drivingForce?.value ?? null,
+          log10Rate: Math.log10(r.rate.value),
+          donor: r.system.donor.name,
+          acceptor: r.system.acceptor.name
+        }))
     }
   }
   catch (e) {

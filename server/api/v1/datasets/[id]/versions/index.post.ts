@@ -2,7 +2,12 @@ import { requireUser } from '../../../../../utils/auth'
 import { intParam } from '../../../../../utils/params'
 import { newVersion } from '../../../../../utils/review'
 
-defineRouteMeta({ openAPI: { tags: ['deposit'], summary: 'Start a new version (a correction) from the newest published one; it goes through review again' } })
+defineRouteMeta({
+  openAPI: {
+    tags: ['deposit'],
+    summary: 'Start a new version (a correction) from the newest published one; it goes through review again'
+  }
+})
 
 export default defineEventHandler(async (event) => {
   const id = intParam(event, 'id')
