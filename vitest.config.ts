@@ -8,19 +8,48 @@ export default defineConfig({
   resolve: { alias },
   test: {
     projects: [
-      { resolve: { alias }, test: { name: 'unit', environment: 'node', include: ['tests/unit/**/*.test.ts'], sequence: { groupOrder: 0 } } },
       {
         resolve: { alias },
-        test: { name: 'api', environment: 'node', include: ['tests/api/**/*.test.ts'], exclude: ['tests/api/abuse.test.ts'], testTimeout: 30_000, hookTimeout: 60_000, fileParallelism: true, maxWorkers: 2, sequence: { groupOrder: 1 } }
+        test: { name: 'unit', environment: 'node', include: ['tests/unit/**/*.test.ts'], sequence: { groupOrder: 0 } }
+      },
+      {
+        resolve: { alias },
+        test: {
+          name: 'api',
+          environment: 'node',
+          include: ['tests/api/**/*.test.ts'],
+          exclude: ['tests/api/abuse.test.ts'],
+          testTimeout: 30_000,
+          hookTimeout: 60_000,
+          fileParallelism: true,
+          maxWorkers: 2,
+          sequence: { groupOrder: 1 }
+        }
       },
       {
         // the abuse suite measures the server's responsiveness, so it runs alone, after the other API files
         resolve: { alias },
-        test: { name: 'abuse', environment: 'node', include: ['tests/api/abuse.test.ts'], testTimeout: 60_000, hookTimeout: 120_000, fileParallelism: false, sequence: { groupOrder: 2 } }
+        test: {
+          name: 'abuse',
+          environment: 'node',
+          include: ['tests/api/abuse.test.ts'],
+          testTimeout: 60_000,
+          hookTimeout: 120_000,
+          fileParallelism: false,
+          sequence: { groupOrder: 2 }
+        }
       },
       {
         resolve: { alias },
-        test: { name: 'browser', environment: 'node', include: ['tests/browser/**/*.test.ts'], testTimeout: 60_000, hookTimeout: 90_000, fileParallelism: false, sequence: { groupOrder: 3 } }
+        test: {
+          name: 'browser',
+          environment: 'node',
+          include: ['tests/browser/**/*.test.ts'],
+          testTimeout: 60_000,
+          hookTimeout: 90_000,
+          fileParallelism: false,
+          sequence: { groupOrder: 3 }
+        }
       }
     ]
   }

@@ -1,4 +1,7 @@
-/** Control characters (C0, DEL, C1) that have no place in a one-line field: a CR/LF there starts a new record in RIS or a new tag line in bag-info.txt. */
+/**
+ * Control characters (C0, DEL, C1) that have no place in a one-line field: a CR/LF there starts a new record in RIS
+ * or a new tag line in bag-info.txt.
+ */
 // eslint-disable-next-line no-control-regex
 export const CONTROL_CHARS = /[\u0000-\u001F\u007F-\u009F\u2028\u2029]/
 // eslint-disable-next-line no-control-regex

@@ -1,4 +1,7 @@
-/** Start-up: refuse the demo session secret in production, open and migrate the database; a server that cannot stops with a clear message. */
+/**
+ * Start-up: refuse the demo session secret in production, open and migrate the database; a server that cannot
+ * stops with a clear message.
+ */
 import { writeFileSync, rmSync } from 'node:fs'
 import { secretProblem } from '../utils/demo-secret'
 import { resolveFileUrl, serverMarkPath } from '../utils/backup'

@@ -49,7 +49,9 @@ export async function signUp (name: string, email: string, password: string): Pr
       await sendMail(
         key,
         'Someone tried to create a Crosspoint account with your address',
-        `Someone (perhaps you) tried to create a Crosspoint account with this address, which already has one.\nIf it was you, sign in or reset your password: ${publicUrl('/signin')}\nIf not, you can ignore this message; nothing was changed.\n`
+        `Someone (perhaps you) tried to create a Crosspoint account with this address, which already has one.\nIf it `
+        + `was you, sign in or reset your password: ${publicUrl('/signin')}\nIf not, you can ignore this message; `
+        + `nothing was changed.\n`
       )
       return
     }
@@ -64,7 +66,9 @@ export async function signUp (name: string, email: string, password: string): Pr
     await sendMail(
       key,
       'Confirm your e-mail address for Crosspoint',
-      `Hello ${name.trim()},\n\nConfirm your address to finish creating your Crosspoint account:\n${publicUrl(`/verify?token=${token}`)}\n\nThe link works once, for 48 hours. If you did not sign up, ignore this message.\n`
+      `Hello ${name.trim()},\n\nConfirm your address to finish creating your Crosspoint `
+      + `account:\n${publicUrl(`/verify?token=${token}`)}\n\nThe link works once, for 48 hours. If you did not sign `
+      + `up, ignore this message.\n`
     )
   })
 }
@@ -98,7 +102,9 @@ export async function sendPasswordReset (email: string): Promise<void> {
     await sendMail(
       u.email,
       'Reset your Crosspoint password',
-      `Choose a new password with this link (one use, 60 minutes; it replaces any earlier link):\n${publicUrl(`/reset?token=${token}`)}\n\nIf you did not ask for this, ignore this message; your password is unchanged.\n`
+      `Choose a new password with this link (one use, 60 minutes; it replaces any earlier `
+      + `link):\n${publicUrl(`/reset?token=${token}`)}\n\nIf you did not ask for this, ignore this message; your `
+      + `password is unchanged.\n`
     )
   })
 }

@@ -13,7 +13,8 @@ const { datasets, datasetVersions: versions, rateRecords: records, labs } = sche
 export function currentPublishedVersionIds (): SQL {
   return sql`(select v.id from dataset_version v where v.state = 'published'
     and (v.embargo_until is null or v.embargo_until <= date('now'))
-    and v.version_number = (select max(v2.version_number) from dataset_version v2 where v2.dataset_id = v.dataset_id and v2.state = 'published'))`
+    and v.version_number = (select max(v2.version_number) from dataset_version v2
+      where v2.dataset_id = v.dataset_id and v2.state = 'published'))`
 }
 
 /** May this viewer see a version in this state, belonging to this lab? */
@@ -59,7 +60,8 @@ export async function listDatasets (
     opts.q ? sql`lower(${versions.title}) like ${'%' + opts.q.toLowerCase() + '%'}` : undefined,
     // one row per dataset: its newest version the viewer can see (a published dataset stays listed
     // for visitors while its next version is drafted or in review)
-    sql`${versions.versionNumber} = (select max(v2.version_number) from dataset_version v2 where v2.dataset_id = ${datasets.id} and ${visibleV2(viewer)})`
+    sql`${versions.versionNumber} = (select max(v2.version_number) from dataset_version v2
+      where v2.dataset_id = ${datasets.id} and ${visibleV2(viewer)})`
   )
   const rows = await db
     .select({

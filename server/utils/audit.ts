@@ -29,7 +29,8 @@ export async function datasetAudit (datasetId: number) {
     .from(auditEvents)
     .leftJoin(users, eq(users.id, auditEvents.actorId))
     .where(
-      sql`(${auditEvents.targetType} = 'dataset' and ${auditEvents.targetId} = ${String(datasetId)}) or (${auditEvents.targetType} = 'dataset_version' and ${auditEvents.targetId} in ${vIds.length ? vIds : ['-']})`
+      sql`(${auditEvents.targetType} = 'dataset' and ${auditEvents.targetId} = ${String(datasetId)})
+        or (${auditEvents.targetType} = 'dataset_version' and ${auditEvents.targetId} in ${vIds.length ? vIds : ['-']})`
     )
     .orderBy(desc(auditEvents.id))
 }

@@ -31,7 +31,8 @@ export interface Selection {
   source: string
 }
 
-const JOINS = sql`inner join dataset_version on dataset_version.id = rate_record.version_id inner join dataset on dataset.id = dataset_version.dataset_id`
+const JOINS = sql`inner join dataset_version on dataset_version.id = rate_record.version_id
+  inner join dataset on dataset.id = dataset_version.dataset_id`
 const FROM = sql`rate_record ${JOINS}`
 /** The same tables, with SQLite kept on the rowid of rate_record (see pages()). */
 const FROM_ROWID = sql`rate_record not indexed ${JOINS}`
@@ -46,8 +47,11 @@ const cell = (x: SQL) => {
  * item's fields between "id" and "record".
  */
 const VERSION_PARTS = sql`with version_parts as materialized (select dataset_version.id as vid,
-  ',' || dataset_version.dataset_id || ',' || dataset_version.version_number || ',' || ${cell(sql`coalesce(dataset_version.doi, '')`)} || ',' || ${cell(sql`dataset_version.license`)} || ',' as csv,
-  ',"datasetId":' || dataset_version.dataset_id || ',"datasetVersion":' || dataset_version.version_number || ',"identifier":' || coalesce(json_quote(dataset_version.doi), 'null') || ',"license":' || json_quote(dataset_version.license) || ',"record":' as json
+  ',' || dataset_version.dataset_id || ',' || dataset_version.version_number || ','
+    || ${cell(sql`coalesce(dataset_version.doi, '')`)} || ',' || ${cell(sql`dataset_version.license`)} || ',' as csv,
+  ',"datasetId":' || dataset_version.dataset_id || ',"datasetVersion":' || dataset_version.version_number
+    || ',"identifier":' || coalesce(json_quote(dataset_version.doi), 'null')
+    || ',"license":' || json_quote(dataset_version.license) || ',"record":' as json
   from dataset_version)`
 const PREFIX = sql`rate_record.id || version_parts.csv`
 const JSON_LINE = sql`'{"id":' || rate_record.id || version_parts.json || rate_record.data || '}'`
@@ -108,7 +112,8 @@ async function* pages (
       n: number
       bytes: ArrayBuffer | null
     }>(sql`${VERSION_PARTS} select count(*) as n, cast(group_concat(${item}, ${kind === 'csv' ? '' : ','}) as blob) as bytes
-      from ${FROM_ROWID} inner join version_parts on version_parts.vid = rate_record.version_id where rate_record.id between ${lo} and ${hi} and (${sel.where})`)
+      from ${FROM_ROWID} inner join version_parts on version_parts.vid = rate_record.version_id
+      where rate_record.id between ${lo} and ${hi} and (${sel.where})`)
     if (row?.n) yield { bytes: Buffer.from(row.bytes!), n: row.n }
     else {
       const next = await db.get<{ id: number | null }>(
@@ -127,7 +132,8 @@ async function refreshCsvLines (sel: Selection): Promise<void> {
   const db = await useDb()
   for (;;) {
     const stale = await db.all<{ id: number, data: string }>(
-      sql`select rate_record.id as id, rate_record.data as data from ${FROM} where (${sel.where}) and (rate_record.csv_format is null or rate_record.csv_format != ${CSV_FORMAT}) limit 2000`
+      sql`select rate_record.id as id, rate_record.data as data from ${FROM} where (${sel.where})
+        and (rate_record.csv_format is null or rate_record.csv_format != ${CSV_FORMAT}) limit 2000`
     )
     if (!stale.length) return
     await db.transaction(async (tx) => {
@@ -228,7 +234,8 @@ export async function writeBundle (
     }
     payload.push(await appendHashed(zip, 'data/records.json', json()))
     return tx.all<{ datasetId: number, versionNumber: number }>(
-      sql`select distinct dataset_version.dataset_id as datasetId, dataset_version.version_number as versionNumber from ${FROM} where ${sel.where}`
+      sql`select distinct dataset_version.dataset_id as datasetId, dataset_version.version_number as versionNumber
+        from ${FROM} where ${sel.where}`
     )
   })
   const db = await useDb()
@@ -312,8 +319,10 @@ function readme (cited: CitableVersion[], sel: Selection, count: number, header:
     '',
     '## What is here',
     '',
-    '- `records.csv`: one row per record, canonical units in the header (eV, K, Å, s⁻¹ or M⁻¹ s⁻¹); the value as reported is kept in the *_as_reported columns.',
-    '- `records.json`: the same records, in the same order; each `record` is valid against `schemas/rate-record.v1.json` (JSON Schema 2020-12).',
+    '- `records.csv`: one row per record, canonical units in the header (eV, K, Å, s⁻¹ or M⁻¹ s⁻¹); '
+    + 'the value as reported is kept in the *_as_reported columns.',
+    '- `records.json`: the same records, in the same order; '
+    + 'each `record` is valid against `schemas/rate-record.v1.json` (JSON Schema 2020-12).',
     '- `datasets/*.datacite.json`: citation metadata (DataCite) of every contributing dataset version.',
     '- `CITATION.cff`: how to cite this bundle.',
     '',
@@ -332,7 +341,9 @@ function readme (cited: CitableVersion[], sel: Selection, count: number, header:
     '',
     ...cited.map(
       c =>
-        `- ${c.metadata.creators.map(a => a.name).join('; ')} (${(c.publishedAt ?? new Date()).getUTCFullYear()}). ${c.title} (Version ${c.versionNumber}). Crosspoint. ${c.doi ? `https://doi.org/${c.doi}` : c.landingUrl} — licence ${c.license}`
+        `- ${c.metadata.creators.map(a => a.name).join('; ')} (${(c.publishedAt ?? new Date()).getUTCFullYear()}). `
+        + `${c.title} (Version ${c.versionNumber}). Crosspoint. `
+        + `${c.doi ? `https://doi.org/${c.doi}` : c.landingUrl} — licence ${c.license}`
     ),
     '',
     '## Licences',
@@ -343,7 +354,8 @@ function readme (cited: CitableVersion[], sel: Selection, count: number, header:
     '',
     '## Checking the bag',
     '',
-    'This is a BagIt 1.0 bag (RFC 8493): `manifest-sha256.txt` lists the sha256 of every payload file, `bag-info.txt` gives Payload-Oxum (octets.files) and `tagmanifest-sha256.txt` covers the tag files.',
+    'This is a BagIt 1.0 bag (RFC 8493): `manifest-sha256.txt` lists the sha256 of every payload file, '
+    + '`bag-info.txt` gives Payload-Oxum (octets.files) and `tagmanifest-sha256.txt` covers the tag files.',
     '',
     'Model parameters in the records are what authors reported; derived values say how they were obtained. Demo datasets are invented.',
     ''

@@ -70,7 +70,8 @@ export async function assertIntact (client: Client, url: string): Promise<void> 
   if (verdict !== 'ok') {
     client.close()
     throw new Error(
-      `The database ${url} is damaged (integrity check: ${verdict.slice(0, 300)}). Crosspoint will not serve it; restore the newest backup with npm run restore`
+      `The database ${url} is damaged (integrity check: ${verdict.slice(0, 300)}). Crosspoint will not serve it; `
+      + `restore the newest backup with npm run restore`
     )
   }
 }

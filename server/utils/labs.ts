@@ -47,7 +47,9 @@ export async function inviteToLab (actor: Viewer, labId: number, email: string) 
   await sendMail(
     email,
     `Invitation to join ${lab.name} on Crosspoint`,
-    `${actor.name ?? actor.email} invites you to join ${lab.name} on Crosspoint, the shared archive of electron-transfer rates.\n\nSign in (or create an account with this address), then open:\n${publicUrl(`/invite?token=${token}`)}\n\nThe invitation is valid for 7 days.\n`
+    `${actor.name ?? actor.email} invites you to join ${lab.name} on Crosspoint, the shared archive of `
+    + `electron-transfer rates.\n\nSign in (or create an account with this address), then `
+    + `open:\n${publicUrl(`/invite?token=${token}`)}\n\nThe invitation is valid for 7 days.\n`
   )
   await audit(actor.id, 'lab.invited', 'lab', labId, { email: normalizeEmail(email) })
 }

@@ -22,7 +22,9 @@ export const curveBodySchema = {
   type: 'object',
   required: ['model', 'temperatureK', 'coupling', 'drivingForces'],
   additionalProperties: false,
-  description: `Bounds (common practice, SCIENCE.md): T 1–2000 K; λ 0.005–5 eV; λ_i 0–5 eV; ħω 0.005–1 eV; V 1e-9–1 eV; |ΔG°| ≤ 10 eV; Huang–Rhys factor S = λ_i/ħω ≤ ${MAX_HUANG_RHYS}. The classical model takes lambdaTotal or lambdaSolvent + lambdaInternal (added), never both.`,
+  description: `Bounds (common practice, SCIENCE.md): T 1–2000 K; λ 0.005–5 eV; λ_i 0–5 eV; ħω 0.005–1 eV; V 1e-9–1 `
+    + `eV; |ΔG°| ≤ 10 eV; Huang–Rhys factor S = λ_i/ħω ≤ ${MAX_HUANG_RHYS}. The classical model takes lambdaTotal or `
+    + `lambdaSolvent + lambdaInternal (added), never both.`,
   properties: {
     model: { enum: ['classical', 'semiclassical'] },
     temperatureK: boundSchema('temperatureK'),
@@ -188,7 +190,8 @@ export const fitBodySchema = {
   required: ['model', 'points'],
   additionalProperties: false,
   description:
-    'Weighted least squares of log10 k against ΔG° within the parameter bounds; every point at its own temperature (points[i].temperatureK, else the top-level temperatureK).',
+    'Weighted least squares of log10 k against ΔG° within the parameter bounds; every point at its own temperature '
+    + '(points[i].temperatureK, else the top-level temperatureK).',
   properties: {
     model: { enum: ['classical', 'semiclassical'] },
     temperatureK: boundSchema('temperatureK', { description: 'Temperature for points without their own, K, 1–2000' }),

@@ -321,7 +321,9 @@ export async function returnVersion (
     await sendMail(
       to,
       `Returned with comments: ${version.title}`,
-      `A curator returned "${version.title}" (v${version.versionNumber}) for changes.\n\n${b.comment}\n\n${(b.recordComments ?? []).length} record(s) have comments. Answer them and resubmit:\n${publicUrl(`/deposit/${datasetId}`)}\n`
+      `A curator returned "${version.title}" (v${version.versionNumber}) for `
+      + `changes.\n\n${b.comment}\n\n${(b.recordComments ?? []).length} record(s) have comments. Answer them and `
+      + `resubmit:\n${publicUrl(`/deposit/${datasetId}`)}\n`
     )
   }
   return { state: 'returned' }
@@ -397,7 +399,9 @@ export async function acceptVersion (
     await sendMail(
       to,
       `Published: ${version.title}`,
-      `"${version.title}" (v${version.versionNumber}) was accepted and published.\nCite it as https://doi.org/${ids.version} (all versions: https://doi.org/${ids.concept}).\n${publicUrl(`/datasets/${datasetId}`)}\n`
+      `"${version.title}" (v${version.versionNumber}) was accepted and published.\nCite it as `
+      + `https://doi.org/${ids.version} (all versions: `
+      + `https://doi.org/${ids.concept}).\n${publicUrl(`/datasets/${datasetId}`)}\n`
     )
   }
   return {
@@ -493,8 +497,11 @@ async function copyToDraft (tx: Tx, latest: Version): Promise<Version> {
       recordCount: latest.recordCount
     })
     .returning()
-  await tx.run(sql`insert into rate_record (version_id, position, record_key, data, donor_name, acceptor_name, bridge_name, linkage, process, solvent, technique, temperature_k, distance_angstrom, rate, rate_kind, log10_rate, delta_g, is_demo)
-    select ${nv!.id}, position, record_key, data, donor_name, acceptor_name, bridge_name, linkage, process, solvent, technique, temperature_k, distance_angstrom, rate, rate_kind, log10_rate, delta_g, is_demo from rate_record where version_id = ${latest.id}`)
+  await tx.run(sql`insert into rate_record (version_id, position, record_key, data, donor_name, acceptor_name, bridge_name,
+      linkage, process, solvent, technique, temperature_k, distance_angstrom, rate, rate_kind, log10_rate, delta_g, is_demo)
+    select ${nv!.id}, position, record_key, data, donor_name, acceptor_name, bridge_name,
+      linkage, process, solvent, technique, temperature_k, distance_angstrom, rate, rate_kind, log10_rate, delta_g, is_demo
+    from rate_record where version_id = ${latest.id}`)
   return nv!
 }
 
@@ -532,7 +539,10 @@ export async function startDerivationCorrection (viewer: Viewer, datasetId: numb
     await sendMail(
       to,
       `Correction started: dataset ${datasetId}`,
-      `A curator started version ${res.versionNumber} of "${latest.title}" as a draft: ${res.rederived} driving force(s) derived from redox potentials were re-derived by the rule for their process (charge recombination: −(ΔG°_CS + E₀₀); charge shift: no ion-pair term). The published version is unchanged. Check the draft and submit it for review: ${publicUrl(`/deposit/${datasetId}`)}\n`
+      `A curator started version ${res.versionNumber} of "${latest.title}" as a draft: ${res.rederived} driving `
+      + `force(s) derived from redox potentials were re-derived by the rule for their process (charge recombination: `
+      + `−(ΔG°_CS + E₀₀); charge shift: no ion-pair term). The published version is unchanged. Check the draft and `
+      + `submit it for review: ${publicUrl(`/deposit/${datasetId}`)}\n`
     )
   }
   return res

@@ -89,7 +89,8 @@ async function* loadDocs (datasetIds?: number[]): AsyncGenerator<SearchDoc[]> {
       publishedAt: v.publishedAt,
       lab: schema.labs.name,
       newest: sql<number>`(select max(v2.version_number) from dataset_version v2 where v2.dataset_id = ${v.datasetId})`,
-      newestPublished: sql<number>`(select max(v3.version_number) from dataset_version v3 where v3.dataset_id = ${v.datasetId} and v3.state = 'published')`
+      newestPublished: sql<number>`(select max(v3.version_number) from dataset_version v3
+        where v3.dataset_id = ${v.datasetId} and v3.state = 'published')`
     })
     .from(v)
     .innerJoin(schema.datasets, eq(schema.datasets.id, v.datasetId))

@@ -81,7 +81,8 @@ export function checkHuangRhys (c: IssueCollector, lambdaInternal: number, vibra
   if (S > MAX_HUANG_RHYS) {
     c.add(
       path,
-      `Huang–Rhys factor S = λ_i/ħω = ${S.toPrecision(4)} is above ${MAX_HUANG_RHYS}: raise ħω or lower λ_i (a mode that soft is not a quantum mode)`
+      `Huang–Rhys factor S = λ_i/ħω = ${S.toPrecision(4)} is above ${MAX_HUANG_RHYS}: raise ħω or lower λ_i (a mode `
+      + `that soft is not a quantum mode)`
     )
   }
 }

@@ -184,7 +184,9 @@ export function fitRates (req: FitRequest): FitResult {
     )
   if (status === 'stalled')
     warnings.push(
-      `The optimizer stopped without confirming a minimum after ${iterations} iterations from ${startCount} starting points: the values below are the best found, not a fit result. Fix a parameter, give starting values or add points.`
+      `The optimizer stopped without confirming a minimum after ${iterations} iterations from ${startCount} starting `
+      + `points: the values below are the best found, not a fit result. Fix a parameter, give starting values or add `
+      + `points.`
     )
   const { cov, noEffect } = covariance(prob, vec, best.active)
   const p = assemble(prob, vec)
@@ -214,7 +216,9 @@ export function fitRates (req: FitRequest): FitResult {
     if (edge) {
       const bv = bounds[name]![edge === 'lower' ? 0 : 1]
       warnings.push(
-        `${cap(label)} ended at the ${edge} bound of its allowed range (${bv} eV): the best fit wants it ${edge === 'lower' ? 'lower' : 'higher'}; its standard error is not given and the others' come from the fit with it held there.`
+        `${cap(label)} ended at the ${edge} bound of its allowed range (${bv} eV): the best fit wants it `
+        + `${edge === 'lower' ? 'lower' : 'higher'}; its standard error is not given and the others' come from the `
+        + `fit with it held there.`
       )
     }
     else if (noEffect[fi]) {

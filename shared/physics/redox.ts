@@ -63,7 +63,8 @@ export function rehmWeller (inp: RehmWellerInput): RehmWellerResult {
   if (!sameRef && inp.referenceOffset === undefined) {
     c.add(
       '/acceptorReference',
-      `Potentials are against different reference electrodes (${inp.donorReference} and ${inp.acceptorReference}); record the offset between them in referenceOffset`
+      `Potentials are against different reference electrodes (${inp.donorReference} and ${inp.acceptorReference}); `
+      + `record the offset between them in referenceOffset`
     )
   }
   if (inp.referenceOffset !== undefined) c.finite(inp.referenceOffset, '/referenceOffset', 'Reference offset')
@@ -138,7 +139,8 @@ export function drivingForceByProcess (process: string | undefined, inp: RehmWel
     throw new PhysicsInputError([
       {
         path: '/process',
-        message: `ΔG° cannot be derived from potentials for process "${process ?? ''}": give ΔG° directly, or set the process to charge-separation, charge-recombination, charge-shift or hole-transfer`
+        message: `ΔG° cannot be derived from potentials for process "${process ?? ''}": give ΔG° directly, or set the `
+          + `process to charge-separation, charge-recombination, charge-shift or hole-transfer`
       }
     ])
   }

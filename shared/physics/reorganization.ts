@@ -40,7 +40,8 @@ export function twoSphereSolventReorganization (inp: TwoSphereInput): number {
   if (pekarFactor(inp.refractiveIndex, inp.staticPermittivity) <= 0) {
     c.add(
       '/staticPermittivity',
-      `Static permittivity ε_s = ${inp.staticPermittivity} is not above n² = ${(inp.refractiveIndex ** 2).toFixed(4)}: the solvent term would be zero or negative; check the two values`
+      `Static permittivity ε_s = ${inp.staticPermittivity} is not above n² = ${(inp.refractiveIndex ** 2).toFixed(4)}: `
+      + `the solvent term would be zero or negative; check the two values`
     )
   }
   c.throwIfAny()

@@ -378,7 +378,8 @@ export function checkRecord (r: RateRecordV1, ctx: IngestContext): { issues: Row
     at(
       warnings,
       '/drivingForce/redox/referenceOffset',
-      `mixed reference electrodes (${df.redox.donorReference}, ${df.redox.acceptorReference}); the recorded offset of ${df.redox.referenceOffset} V was applied`
+      `mixed reference electrodes (${df.redox.donorReference}, ${df.redox.acceptorReference}); the recorded offset of `
+      + `${df.redox.referenceOffset} V was applied`
     )
   }
   // usual ranges: SCIENCE.md, common practice, no single source
@@ -394,7 +395,8 @@ export function checkRecord (r: RateRecordV1, ctx: IngestContext): { issues: Row
         at(
           warnings,
           '/rate/value',
-          `is near the diffusion limit (k_diff ≈ ${kd.toExponential(2)} M⁻¹ s⁻¹ in ${s.name}); it says little about the electron-transfer step`
+          `is near the diffusion limit (k_diff ≈ ${kd.toExponential(2)} M⁻¹ s⁻¹ in ${s.name}); it says little about `
+          + `the electron-transfer step`
         )
     }
     if (r.system.linkage !== 'bimolecular')

@@ -10,7 +10,8 @@ defineRouteMeta({
   openAPI: {
     tags: ['bundles'],
     summary:
-      'Download a search selection ({ query }) or chosen records ({ recordIds }) as a BagIt ZIP citing every contributing dataset; published records only',
+      'Download a search selection ({ query }) or chosen records ({ recordIds }) as a BagIt ZIP citing every '
+      + 'contributing dataset; published records only',
     responses: {
       200: { description: 'application/zip' },
       413: { description: 'Selection too large' },

@@ -167,7 +167,8 @@ export async function submitDraft (viewer: Viewer, version: Version) {
     await sendMail(
       c.email,
       `Submitted for review: ${version.title}`,
-      `${viewer.name ?? viewer.email} submitted "${version.title}" (${version.recordCount} records) for review.\n${publicUrl(`/datasets/${version.datasetId}`)}\n`
+      `${viewer.name ?? viewer.email} submitted "${version.title}" (${version.recordCount} records) for `
+      + `review.\n${publicUrl(`/datasets/${version.datasetId}`)}\n`
     )
   }
   return { state: 'submitted' }

@@ -33,7 +33,8 @@ export async function xlsxTemplate (): Promise<Buffer> {
     notes.addRow([c.key, c.units?.join(', ') ?? '', c.values?.join(', ') ?? '', c.required ? 'yes' : '', c.help])
   notes.addRow([])
   notes.addRow([
-    'Values only: formulas and error cells are refused. Leave a cell empty when there is no value. Give either rate or both lifetimes; either delta_g or the potentials with their reference electrodes.'
+    'Values only: formulas and error cells are refused. Leave a cell empty when there is no value. Give either rate or '
+    + 'both lifetimes; either delta_g or the potentials with their reference electrodes.'
   ])
   return Buffer.from(await wb.xlsx.writeBuffer())
 }

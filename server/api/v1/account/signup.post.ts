@@ -7,7 +7,8 @@ defineRouteMeta({
     tags: ['account'],
     summary: 'Create an account; a confirmation link is e-mailed',
     description:
-      'Answers 202 alike for a new and an already registered address (the owner of a registered one is told by mail), in the same time, so that the answer does not reveal who has an account.',
+      'Answers 202 alike for a new and an already registered address (the owner of a registered one is told by mail), '
+      + 'in the same time, so that the answer does not reveal who has an account.',
     responses: {
       202: { description: 'Check your e-mail' },
       422: { description: 'Invalid fields' },

@@ -13,7 +13,8 @@ export default defineEventHandler(async () => {
       institution: schema.labs.institution,
       isDemo: schema.labs.isDemo,
       members: sql<number>`(select count(*) from lab_membership m where m.lab_id = lab.id)`,
-      publishedDatasets: sql<number>`(select count(distinct d.id) from dataset d join dataset_version v on v.dataset_id = d.id where d.lab_id = lab.id and v.state = 'published')`
+      publishedDatasets: sql<number>`(select count(distinct d.id) from dataset d join dataset_version v on v.dataset_id = d.id
+        where d.lab_id = lab.id and v.state = 'published')`
     })
     .from(schema.labs)
     .orderBy(schema.labs.name)

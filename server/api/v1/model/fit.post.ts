@@ -7,7 +7,11 @@ defineRouteMeta({
     tags: ['model'],
     summary: 'Fit classical or semi-classical parameters to log10 k against ΔG°',
     description:
-      'Bounded weighted least squares (projected Levenberg–Marquardt from several starts); any parameter can be fixed; the coupling is fitted on a log scale; each point at its own temperature (points[i].temperatureK wins over temperatureK). status is converged, at-bound (atBound names the parameters held at an edge of their range; their standard errors are null and the others come from the reduced problem) or stalled (no minimum confirmed; converged false). 422 for bad or under-determined input, each field named.',
+      'Bounded weighted least squares (projected Levenberg–Marquardt from several starts); any parameter can be fixed; '
+      + 'the coupling is fitted on a log scale; each point at its own temperature (points[i].temperatureK wins over '
+      + 'temperatureK). status is converged, at-bound (atBound names the parameters held at an edge of their range; '
+      + 'their standard errors are null and the others come from the reduced problem) or stalled (no minimum '
+      + 'confirmed; converged false). 422 for bad or under-determined input, each field named.',
     requestBody: { required: true, content: { 'application/json': { schema: { type: 'object' } } } },
     responses: {
       200: {

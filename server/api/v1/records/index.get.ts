@@ -55,7 +55,8 @@ defineRouteMeta({
   openAPI: {
     tags: ['records'],
     summary:
-      'Search records (published ones; signed-in members also find their lab\'s drafts): full text with prefix and typo tolerance, facet counts and value ranges',
+      'Search records (published ones; signed-in members also find their lab\'s drafts): full text with prefix and '
+      + 'typo tolerance, facet counts and value ranges',
     parameters: [
       'q',
       'ids',

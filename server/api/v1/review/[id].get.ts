@@ -5,7 +5,8 @@ defineRouteMeta({
   openAPI: {
     tags: ['review'],
     summary:
-      'A submission as the curator sees it: records, validation report, diff against the previous published version, changes since a return, review history'
+      'A submission as the curator sees it: records, validation report, diff against the previous published version, '
+      + 'changes since a return, review history'
   }
 })
 

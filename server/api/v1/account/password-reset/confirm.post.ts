@@ -22,6 +22,7 @@ export default defineEventHandler(async (event) => {
   const ended = await setPassword(t.email, b.password)
   return {
     email: t.email,
-    message: `Password changed; sign in with the new one. Every session was signed out${ended.tokens ? ` and ${ended.tokens} API token${ended.tokens === 1 ? ' was' : 's were'} revoked` : ''}.`
+    message: `Password changed; sign in with the new one. Every session was signed `
+      + `out${ended.tokens ? ` and ${ended.tokens} API token${ended.tokens === 1 ? ' was' : 's were'} revoked` : ''}.`
   }
 })

@@ -17,7 +17,8 @@ export default defineEventHandler(async (event) => {
       affiliation: schema.users.affiliation,
       verified: sql<boolean>`"user"."emailVerified" is not null`,
       createdAt: schema.users.createdAt,
-      labs: sql<string>`(select group_concat(l.name, '; ') from lab_membership m join lab l on l.id = m.lab_id where m.user_id = "user"."id")`
+      labs: sql<string>`(select group_concat(l.name, '; ') from lab_membership m join lab l on l.id = m.lab_id
+        where m.user_id = "user"."id")`
     })
     .from(schema.users)
     .orderBy(schema.users.name)

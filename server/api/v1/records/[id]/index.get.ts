@@ -8,7 +8,8 @@ defineRouteMeta({
   openAPI: {
     tags: ['records'],
     summary:
-      'One record in the open format, with its dataset, provenance and the structures of its species (canonical SMILES, InChI, InChIKey, SVG depiction by RDKit) where it gives SMILES'
+      'One record in the open format, with its dataset, provenance and the structures of its species (canonical '
+      + 'SMILES, InChI, InChIKey, SVG depiction by RDKit) where it gives SMILES'
   }
 })
 

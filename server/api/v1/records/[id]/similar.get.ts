@@ -9,7 +9,9 @@ defineRouteMeta({
   openAPI: {
     tags: ['records'],
     summary:
-      'Records of similar systems, with the score and why (closeness in ΔG°, solvent polarity, distance, temperature, process, linkage, and donor/acceptor structures by Morgan-fingerprint Tanimoto, or names where structures are missing)',
+      'Records of similar systems, with the score and why (closeness in ΔG°, solvent polarity, distance, temperature, '
+      + 'process, linkage, and donor/acceptor structures by Morgan-fingerprint Tanimoto, or names where structures '
+      + 'are missing)',
     parameters: [{ in: 'query', name: 'limit', schema: { type: 'integer', maximum: 100 } }]
   }
 })

@@ -6,7 +6,8 @@ defineRouteMeta({
   openAPI: {
     tags: ['review'],
     summary:
-      'Accept and publish: mints the concept and version identifiers at the registrar, then publishes; 503 and nothing published if the registrar fails; 409 if another curator acted first'
+      'Accept and publish: mints the concept and version identifiers at the registrar, then publishes; 503 and nothing '
+      + 'published if the registrar fails; 409 if another curator acted first'
   }
 })
 

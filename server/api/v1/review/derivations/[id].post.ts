@@ -5,9 +5,12 @@ defineRouteMeta({
   openAPI: {
     tags: ['review'],
     summary:
-      'Start a correction version of a published dataset with every ΔG° from potentials re-derived by process (curators, not of the dataset\'s lab)',
+      'Start a correction version of a published dataset with every ΔG° from potentials re-derived by process '
+      + '(curators, not of the dataset\'s lab)',
     description:
-      'Creates the next version as a draft of the dataset\'s lab, mails the lab, and leaves the published version unchanged. 409 when nothing differs or the newest version is not published. → { versionNumber, state, rederived }',
+      'Creates the next version as a draft of the dataset\'s lab, mails the lab, and leaves the published version '
+      + 'unchanged. 409 when nothing differs or the newest version is not published. → { versionNumber, state, '
+      + 'rederived }',
     responses: {
       201: { description: 'The draft version' },
       403: { description: 'Not a curator, or the curator\'s own lab' },

@@ -16,7 +16,8 @@ defineRouteMeta({
   openAPI: {
     tags: ['deposit'],
     summary:
-      'Step 2 of an upload: add every checked row in one transaction (refused while any row has a problem); once per upload, a second commit is 409',
+      'Step 2 of an upload: add every checked row in one transaction (refused while any row has a problem); once per '
+      + 'upload, a second commit is 409',
     responses: {
       200: { description: '{ added, recordCount }' },
       404: { description: 'No such upload for this draft' },
