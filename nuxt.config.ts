@@ -1,5 +1,5 @@
 import { copyModuleSyncEntries } from './scripts/lib/nitro-fixes'
-import { DEMO_AUTH_SECRET } from './server/utils/demo-secret'
+import { DEMO_AUTH_SECRET } from './server/utils/accounts/demo-secret'
 import { cpSync, existsSync } from 'node:fs'
 import { resolve } from 'node:path'
 

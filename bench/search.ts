@@ -14,9 +14,9 @@ const word = process.argv[2] ?? ''
 const want = (n: string) => !word || n.includes(word)
 const dir = mkdtempSync(join(tmpdir(), 'crosspoint-bench-search-'))
 process.env.NUXT_DATABASE_URL = `file:${join(dir, 'bench.db')}`
-const { openDatabase, schema } = await import('../server/utils/db')
-const { toDoc } = await import('../server/utils/search')
-const { RecordIndex } = await import('../server/utils/search-index')
+const { openDatabase, schema } = await import('../server/utils/storage/db')
+const { toDoc } = await import('../server/utils/search/search')
+const { RecordIndex } = await import('../server/utils/search/record-index')
 const { DATASETS, demoRecords } = await import('../scripts/lib/scenario')
 const { recordColumns } = await import('../shared/records/types')
 

@@ -1,5 +1,5 @@
 /** npm run backup: a dated, checksummed backup of the database and stored files (online: the server may keep running). */
-import { backup } from '../server/utils/backup'
+import { backup } from '../server/utils/storage/backup'
 
 const res = await backup({
   databaseUrl: process.env.NUXT_DATABASE_URL ?? 'file:./data/crosspoint.db',

@@ -1,5 +1,5 @@
 /** Applies pending migrations to NUXT_DATABASE_URL (the built server also does this at start). */
-import { openDatabase } from '../server/utils/db'
+import { openDatabase } from '../server/utils/storage/db'
 
 const url = process.env.NUXT_DATABASE_URL ?? 'file:./data/crosspoint.db'
 openDatabase(url, process.env.NUXT_DATABASE_AUTH_TOKEN)

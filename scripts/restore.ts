@@ -1,5 +1,5 @@
 /** npm run restore -- <backup folder>: verifies every checksum and the copy's integrity, then replaces the database and files. Stop the server first. */
-import { restore } from '../server/utils/backup'
+import { restore } from '../server/utils/storage/backup'
 
 const folder = process.argv[2]
 if (!folder) { process.stderr.write('Usage: npm run restore -- <backup folder>\n'); process.exit(2) }

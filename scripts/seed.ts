@@ -5,7 +5,7 @@
  */
 import { eq } from 'drizzle-orm'
 import { hash } from '@node-rs/argon2'
-import { openDatabase, schema } from '../server/utils/db'
+import { openDatabase, schema } from '../server/utils/storage/db'
 import { recordColumns } from '../shared/records/record-columns'
 import { DATASETS, DEMO_PASSWORD, LABS, PEOPLE, SOLVENTS, demoMetadata, demoRecords } from './lib/scenario'
 

@@ -6,8 +6,8 @@
  * tokens), which a forged page cannot be. The session cookie's SameSite=Lax alone does not stop a page
  * on another port of the same host: that is the same site.
  */
-import { httpError } from '../utils/errors'
-import { allowedOrigins } from '../utils/origin'
+import { httpError } from '../utils/http/errors'
+import { allowedOrigins } from '../utils/http/origin'
 
 const SAFE = new Set(['GET', 'HEAD', 'OPTIONS'])
 

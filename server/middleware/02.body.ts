@@ -4,8 +4,8 @@
  * busboy. The API takes JSON only (form-encoded and multipart bodies elsewhere are 415): a page on
  * another site can post a form, but not JSON, without a CORS preflight.
  */
-import { httpError } from '../utils/errors'
-import { MAX_AUTH_BYTES, MAX_JSON_BYTES, MAX_JSON_DEPTH, readCappedBody, jsonDepth, tooLarge } from '../utils/body'
+import { httpError } from '../utils/http/errors'
+import { MAX_AUTH_BYTES, MAX_JSON_BYTES, MAX_JSON_DEPTH, readCappedBody, jsonDepth, tooLarge } from '../utils/http/body'
 import { MAX_FILE_BYTES } from '../utils/deposit/parse'
 
 const UPLOAD_ROUTE = /^\/api\/v1\/datasets\/\d+\/uploads\/check\/?(\?|$)/

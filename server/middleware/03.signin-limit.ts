@@ -1,6 +1,6 @@
 /** At most 10 password sign-in attempts per address (normalised as everywhere) in 15 minutes, per instance. */
-import { limitRate } from '../utils/rate-limit'
-import { normalizeEmail } from '../utils/auth'
+import { limitRate } from '../utils/http/rate-limit'
+import { normalizeEmail } from '../utils/accounts/auth'
 
 export default defineEventHandler(async (event) => {
   if (event.method !== 'POST' || !event.path.startsWith('/api/auth/callback/credentials')) return

@@ -3,8 +3,9 @@
  * stops with a clear message.
  */
 import { writeFileSync, rmSync } from 'node:fs'
-import { secretProblem } from '../utils/demo-secret'
-import { resolveFileUrl, serverMarkPath } from '../utils/backup'
+import { secretProblem } from '../utils/accounts/demo-secret'
+import { resolveFileUrl, serverMarkPath } from '../utils/storage/backup'
+import { useDb } from '../utils/storage/db'
 
 /** Marks the database file as used by this server, so that a restore refuses to replace it under us. */
 function markDatabaseInUse (): void {

@@ -1,5 +1,5 @@
 /** A daily fixity check of stored uploads; mismatches are written to the log for the admins. */
-import { checkFixity } from '../utils/fixity'
+import { checkFixity } from '../utils/storage/fixity'
 
 export default defineNitroPlugin(() => {
   const timer = setInterval(() => {

@@ -5,7 +5,7 @@ import { join } from 'node:path'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import AdmZip from 'adm-zip'
 import { api, DEMO, ROOT, SERVER_ENTRY, freePort, signIn, startServer, type TestServer } from '../helpers/server'
-import { restore, verifyBackup } from '../../server/utils/backup'
+import { restore, verifyBackup } from '../../server/utils/storage/backup'
 import { createClient } from '@libsql/client'
 
 let s: TestServer

@@ -23,7 +23,7 @@ describe('a new person signs up', () => {
     const adminCtx = await browser.newContext()
     const adminPage = await adminCtx.newPage()
     await signInAs(adminPage, s.url, DEMO.admin)
-    // The mail is written after the neutral-timed answer (server/utils/accounts.ts): reload until it is listed.
+    // The mail is written after the neutral-timed answer (server/utils/accounts/accounts.ts): reload until it is listed.
     for (let i = 0; i < 30; i++) {
       await adminPage.goto(`${s.url}/admin?tab=outbox`, { waitUntil: 'networkidle' })
       if (await adminPage.getByText('Confirm your e-mail address for Crosspoint').count()) break

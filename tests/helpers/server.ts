@@ -136,7 +136,7 @@ export async function signInWithLinkToken (base: string, linkToken: string): Pro
 /** The newest mail to an address (read through the admin outbox), and the first link in it. */
 /**
  * The newest mail to `to` once its send has finished. Account mail is sent after a neutral-timed answer
- * (server/utils/accounts.ts), so it may still be queued when the request returns: wait up to 15 s.
+ * (server/utils/accounts/accounts.ts), so it may still be queued when the request returns: wait up to 15 s.
  */
 export async function lastMailTo (base: string, adminCookie: string, to: string) {
   const until = Date.now() + 15_000

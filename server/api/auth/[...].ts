@@ -1,7 +1,7 @@
 import CredentialsProviderModule from 'next-auth/providers/credentials'
 import { NuxtAuthHandler } from '#auth'
-import { signInWithLink, verifyPassword } from '../../utils/auth'
-import { endSession, newSessionId, SESSION_MAX_AGE_S, sessionStands, sessionVersionOf } from '../../utils/sessions'
+import { signInWithLink, verifyPassword } from '../../utils/accounts/auth'
+import { endSession, newSessionId, SESSION_MAX_AGE_S, sessionStands, sessionVersionOf } from '../../utils/accounts/sessions'
 
 // next-auth providers are CommonJS; under ESM the factory sits on `.default`.
 const CredentialsProvider

@@ -1,10 +1,10 @@
 import { and, sql } from 'drizzle-orm'
-import { publishedRecordsWhere } from '../../utils/archive'
-import { runSearch } from '../../utils/search'
-import { MAX_BUNDLE_RECORDS, sendBundle } from '../../utils/bundle'
-import { schema } from '../../utils/db'
-import { publicUrl } from '../../utils/mail'
-import { readValidated } from '../../utils/validation'
+import { publishedRecordsWhere } from '../../utils/publishing/archive'
+import { runSearch } from '../../utils/search/search'
+import { MAX_BUNDLE_RECORDS, sendBundle } from '../../utils/bundles/bundle'
+import { schema } from '../../utils/storage/db'
+import { publicUrl } from '../../utils/services/mail'
+import { readValidated } from '../../utils/http/validation'
 
 defineRouteMeta({
   openAPI: {

@@ -1,5 +1,5 @@
 import { sql } from 'drizzle-orm'
-import { useDb } from '../../utils/db'
+import { useDb } from '../../utils/storage/db'
 
 defineRouteMeta({
   openAPI: {

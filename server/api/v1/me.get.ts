@@ -1,4 +1,4 @@
-import { getViewer } from '../../utils/auth'
+import { getViewer } from '../../utils/accounts/auth'
 
 defineRouteMeta({ openAPI: { tags: ['account'], summary: 'The caller: user, role and lab ids (null for a visitor)' } })
 

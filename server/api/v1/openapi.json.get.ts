@@ -1,4 +1,4 @@
-import { curveBodySchema, fitBodySchema } from '../../utils/model'
+import { curveBodySchema, fitBodySchema } from '../../utils/model/route-schemas'
 
 defineRouteMeta({ openAPI: { tags: ['service'], summary: 'This OpenAPI 3 document (the /api/v1 routes)' } })
 

@@ -1,4 +1,4 @@
-import { archiveOverview } from '../../utils/archive'
+import { archiveOverview } from '../../utils/publishing/archive'
 
 defineRouteMeta({
   openAPI: {

@@ -1,6 +1,6 @@
 import rateRecord from '../../../schemas/rate-record.v1.json'
 import dataset from '../../../schemas/dataset.v1.json'
-import { httpError } from '../../utils/errors'
+import { httpError } from '../../utils/http/errors'
 
 const SCHEMAS: Record<string, object> = { 'rate-record.v1.json': rateRecord, 'dataset.v1.json': dataset }
 

@@ -10,7 +10,7 @@ import {
 } from '../../../shared/records/ingest'
 import type { RateRecordV1 } from '../../../shared/records/types'
 import { FileProblem, MAX_ROWS, detectKind, parseCsv, parseJsonRecords, parseXlsx, type Table } from './parse'
-import { structureIssues } from '../structures'
+import { structureIssues } from '../search/structures'
 
 export interface CheckResult {
   kind: 'csv' | 'xlsx' | 'json'

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest'
-import { bitsToHex, computeStructure, hexToWords, MORGAN, useRDKit } from '../../../server/utils/structures'
+import { bitsToHex, computeStructure, hexToWords, MORGAN, useRDKit } from '../../../server/utils/search/structures'
 import { DEMO_SMILES } from '../../../scripts/lib/scenario'
 
 describe('structures through RDKit', () => {

@@ -1,7 +1,7 @@
-import { normalizeEmail } from '../../../utils/auth'
-import { emailSchema, sendSignInLink } from '../../../utils/accounts'
-import { limitRate } from '../../../utils/rate-limit'
-import { readValidated } from '../../../utils/validation'
+import { normalizeEmail } from '../../../utils/accounts/auth'
+import { emailSchema, sendSignInLink } from '../../../utils/accounts/accounts'
+import { limitRate } from '../../../utils/http/rate-limit'
+import { readValidated } from '../../../utils/http/validation'
 
 defineRouteMeta({
   openAPI: {

@@ -1,6 +1,6 @@
 import { eq } from 'drizzle-orm'
-import { requireUser } from '../../../utils/auth'
-import { useDb, schema } from '../../../utils/db'
+import { requireUser } from '../../../utils/accounts/auth'
+import { useDb, schema } from '../../../utils/storage/db'
 
 defineRouteMeta({ openAPI: { tags: ['account'], summary: 'The signed-in user\'s profile and labs' } })
 

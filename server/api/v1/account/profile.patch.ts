@@ -1,9 +1,9 @@
 import { eq } from 'drizzle-orm'
 import { isValidOrcid, normalizeOrcid } from '../../../../shared/identifiers'
-import { requireUser } from '../../../utils/auth'
-import { useDb, schema } from '../../../utils/db'
-import { httpError } from '../../../utils/errors'
-import { readValidated } from '../../../utils/validation'
+import { requireUser } from '../../../utils/accounts/auth'
+import { useDb, schema } from '../../../utils/storage/db'
+import { httpError } from '../../../utils/http/errors'
+import { readValidated } from '../../../utils/http/validation'
 
 defineRouteMeta({
   openAPI: { tags: ['account'], summary: 'Change name, ORCID iD (check digit verified) or affiliation' }

@@ -1,6 +1,6 @@
-import { emailSchema, passwordSchema, signUp } from '../../../utils/accounts'
-import { limitRate } from '../../../utils/rate-limit'
-import { readValidated } from '../../../utils/validation'
+import { emailSchema, passwordSchema, signUp } from '../../../utils/accounts/accounts'
+import { limitRate } from '../../../utils/http/rate-limit'
+import { readValidated } from '../../../utils/http/validation'
 
 defineRouteMeta({
   openAPI: {

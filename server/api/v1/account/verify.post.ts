@@ -1,7 +1,7 @@
-import { markVerified } from '../../../utils/accounts'
-import { consumeOneTimeToken } from '../../../utils/one-time-tokens'
-import { httpError } from '../../../utils/errors'
-import { readValidated } from '../../../utils/validation'
+import { markVerified } from '../../../utils/accounts/accounts'
+import { consumeOneTimeToken } from '../../../utils/accounts/one-time-tokens'
+import { httpError } from '../../../utils/http/errors'
+import { readValidated } from '../../../utils/http/validation'
 
 defineRouteMeta({
   openAPI: { tags: ['account'], summary: 'Confirm an e-mail address with the token from the mailed link' }

@@ -1,6 +1,6 @@
 import { desc, eq } from 'drizzle-orm'
-import { requireRole } from '../../../utils/auth'
-import { useDb, schema } from '../../../utils/db'
+import { requireRole } from '../../../utils/accounts/auth'
+import { useDb, schema } from '../../../utils/storage/db'
 
 defineRouteMeta({ openAPI: { tags: ['admin'], summary: 'The audit trail, newest first (admin)' } })
 

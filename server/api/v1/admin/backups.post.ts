@@ -1,7 +1,7 @@
-import { requireRole } from '../../../utils/auth'
-import { audit } from '../../../utils/audit'
-import { backup } from '../../../utils/backup'
-import { dataDirectory } from '../../../utils/fixity'
+import { requireRole } from '../../../utils/accounts/auth'
+import { audit } from '../../../utils/storage/audit'
+import { backup } from '../../../utils/storage/backup'
+import { dataDirectory } from '../../../utils/storage/fixity'
 
 defineRouteMeta({
   openAPI: {

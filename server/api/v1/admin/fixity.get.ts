@@ -1,5 +1,5 @@
-import { requireRole } from '../../../utils/auth'
-import { checkFixity } from '../../../utils/fixity'
+import { requireRole } from '../../../utils/accounts/auth'
+import { checkFixity } from '../../../utils/storage/fixity'
 
 defineRouteMeta({
   openAPI: { tags: ['admin'], summary: 'Re-hash every stored upload now and report missing or changed files (admin)' }

@@ -1,6 +1,6 @@
 import { desc } from 'drizzle-orm'
-import { requireRole } from '../../../utils/auth'
-import { useDb, schema } from '../../../utils/db'
+import { requireRole } from '../../../utils/accounts/auth'
+import { useDb, schema } from '../../../utils/storage/db'
 
 defineRouteMeta({ openAPI: { tags: ['admin'], summary: 'Mail the app has sent, newest first (admin)' } })
 

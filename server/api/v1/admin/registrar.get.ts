@@ -1,5 +1,5 @@
-import { requireRole } from '../../../utils/auth'
-import { localRegistrarState } from '../../../utils/registrar'
+import { requireRole } from '../../../utils/accounts/auth'
+import { localRegistrarState } from '../../../utils/services/registrar'
 
 defineRouteMeta({
   openAPI: {

@@ -1,6 +1,6 @@
-import { getViewer } from '../../../utils/auth'
-import { datasetView, recordDetailOf } from '../../../utils/dataset-view'
-import { intParam } from '../../../utils/params'
+import { getViewer } from '../../../utils/accounts/auth'
+import { datasetView, recordDetailOf } from '../../../utils/publishing/dataset-view'
+import { intParam } from '../../../utils/http/params'
 
 defineRouteMeta({
   openAPI: {

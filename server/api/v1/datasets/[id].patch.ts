@@ -1,7 +1,7 @@
 import { requireEditableDraft } from '../../../utils/deposit/drafts'
 import { datasetMetaSchema, updateMetadata, type DatasetMetaInput } from '../../../utils/deposit/metadata'
-import { intParam } from '../../../utils/params'
-import { readValidated } from '../../../utils/validation'
+import { intParam } from '../../../utils/http/params'
+import { readValidated } from '../../../utils/http/validation'
 
 defineRouteMeta({
   openAPI: {

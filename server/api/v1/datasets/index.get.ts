@@ -1,7 +1,7 @@
-import { getViewer } from '../../../utils/auth'
-import { listDatasets } from '../../../utils/archive'
-import { coerceNumbers, queryValidated } from '../../../utils/validation'
-import { pagingProperties } from '../../../utils/params'
+import { getViewer } from '../../../utils/accounts/auth'
+import { listDatasets } from '../../../utils/publishing/archive'
+import { coerceNumbers, queryValidated } from '../../../utils/http/validation'
+import { pagingProperties } from '../../../utils/http/params'
 
 defineRouteMeta({
   openAPI: {

@@ -1,7 +1,7 @@
-import { requireUser } from '../../../utils/auth'
+import { requireUser } from '../../../utils/accounts/auth'
 import { createDraft, datasetMetaSchema, metadataIssues } from '../../../utils/deposit/metadata'
-import { httpError } from '../../../utils/errors'
-import { readValidated } from '../../../utils/validation'
+import { httpError } from '../../../utils/http/errors'
+import { readValidated } from '../../../utils/http/validation'
 
 defineRouteMeta({
   openAPI: {

@@ -1,6 +1,6 @@
-import { getViewer } from '../../../utils/auth'
-import { getLabOr404, labMembers } from '../../../utils/labs'
-import { intParam } from '../../../utils/params'
+import { getViewer } from '../../../utils/accounts/auth'
+import { getLabOr404, labMembers } from '../../../utils/accounts/labs'
+import { intParam } from '../../../utils/http/params'
 
 defineRouteMeta({ openAPI: { tags: ['labs'], summary: 'A lab; its members are listed to the lab and to admins' } })
 

@@ -1,5 +1,5 @@
 import { sql } from 'drizzle-orm'
-import { useDb, schema } from '../../../utils/db'
+import { useDb, schema } from '../../../utils/storage/db'
 
 defineRouteMeta({ openAPI: { tags: ['archive'], summary: 'Labs with their number of members and published datasets' } })
 

@@ -1,6 +1,6 @@
-import { requireRole } from '../../../utils/auth'
-import { createLab } from '../../../utils/labs'
-import { readValidated } from '../../../utils/validation'
+import { requireRole } from '../../../utils/accounts/auth'
+import { createLab } from '../../../utils/accounts/labs'
+import { readValidated } from '../../../utils/http/validation'
 
 defineRouteMeta({ openAPI: { tags: ['labs'], summary: 'Create a lab (admin)' } })
 

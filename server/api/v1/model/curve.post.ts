@@ -1,5 +1,5 @@
-import { computeCurve, curveBodySchema, type CurveBody } from '../../../utils/model'
-import { readValidated } from '../../../utils/validation'
+import { computeCurve, curveBodySchema, type CurveBody } from '../../../utils/model/route-schemas'
+import { readValidated } from '../../../utils/http/validation'
 
 defineRouteMeta({
   openAPI: {

@@ -1,6 +1,6 @@
 import type { FitRequest } from '../../../../shared/physics'
-import { computeFit, fitBodySchema } from '../../../utils/model'
-import { readValidated } from '../../../utils/validation'
+import { computeFit, fitBodySchema } from '../../../utils/model/route-schemas'
+import { readValidated } from '../../../utils/http/validation'
 
 defineRouteMeta({
   openAPI: {

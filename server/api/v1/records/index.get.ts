@@ -1,9 +1,9 @@
-import { getViewer } from '../../../utils/auth'
-import { pagedRecords } from '../../../utils/archive'
-import { cachedSearch } from '../../../utils/search'
-import type { SearchQuery } from '../../../utils/search-index'
-import { coerceNumbers, queryValidated } from '../../../utils/validation'
-import { pagingProperties } from '../../../utils/params'
+import { getViewer } from '../../../utils/accounts/auth'
+import { pagedRecords } from '../../../utils/publishing/archive'
+import { cachedSearch } from '../../../utils/search/search'
+import type { SearchQuery } from '../../../utils/search/index-schema'
+import { coerceNumbers, queryValidated } from '../../../utils/http/validation'
+import { pagingProperties } from '../../../utils/http/params'
 
 const RANGE_KEYS = [
   'deltaGMin',

@@ -1,4 +1,4 @@
-import { intParam } from '../../../utils/params'
+import { intParam } from '../../../utils/http/params'
 import { requireCurator, reviewView } from '../../../utils/review'
 
 defineRouteMeta({

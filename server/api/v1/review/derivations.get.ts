@@ -1,6 +1,6 @@
 import { requireCurator } from '../../../utils/review'
-import { derivationReport } from '../../../utils/derivations'
-import { useDb } from '../../../utils/db'
+import { derivationReport } from '../../../utils/review/derivations'
+import { useDb } from '../../../utils/storage/db'
 
 defineRouteMeta({
   openAPI: {

@@ -1,5 +1,5 @@
 import { requireCurator, reviewQueue } from '../../../utils/review'
-import { coerceNumbers, queryValidated } from '../../../utils/validation'
+import { coerceNumbers, queryValidated } from '../../../utils/http/validation'
 
 defineRouteMeta({
   openAPI: {

@@ -1,11 +1,11 @@
 import { eq } from 'drizzle-orm'
-import { requireRole } from '../../../utils/auth'
-import { audit } from '../../../utils/audit'
-import { useDb, schema } from '../../../utils/db'
-import { httpError } from '../../../utils/errors'
-import { intParam } from '../../../utils/params'
-import { readValidated } from '../../../utils/validation'
-import { solventFields } from '../../../utils/solvents'
+import { requireRole } from '../../../utils/accounts/auth'
+import { audit } from '../../../utils/storage/audit'
+import { useDb, schema } from '../../../utils/storage/db'
+import { httpError } from '../../../utils/http/errors'
+import { intParam } from '../../../utils/http/params'
+import { readValidated } from '../../../utils/http/validation'
+import { solventFields } from '../../../utils/reference/solvents'
 
 defineRouteMeta({
   openAPI: {

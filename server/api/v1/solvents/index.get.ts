@@ -1,4 +1,4 @@
-import { useDb, schema } from '../../../utils/db'
+import { useDb, schema } from '../../../utils/storage/db'
 
 defineRouteMeta({
   openAPI: {

@@ -1,5 +1,5 @@
 import { csvTemplate, jsonTemplate, xlsxTemplate } from '../../../utils/deposit/templates'
-import { httpError } from '../../../utils/errors'
+import { httpError } from '../../../utils/http/errors'
 
 defineRouteMeta({
   openAPI: {

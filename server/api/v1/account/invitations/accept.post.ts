@@ -1,6 +1,6 @@
-import { requireUser } from '../../../../utils/auth'
-import { acceptInvitation } from '../../../../utils/labs'
-import { readValidated } from '../../../../utils/validation'
+import { requireUser } from '../../../../utils/accounts/auth'
+import { acceptInvitation } from '../../../../utils/accounts/labs'
+import { readValidated } from '../../../../utils/http/validation'
 
 defineRouteMeta({
   openAPI: {

@@ -1,8 +1,8 @@
-import { passwordSchema, setPassword } from '../../../../utils/accounts'
-import { consumeOneTimeToken } from '../../../../utils/one-time-tokens'
-import { httpError } from '../../../../utils/errors'
-import { limitRate } from '../../../../utils/rate-limit'
-import { readValidated } from '../../../../utils/validation'
+import { passwordSchema, setPassword } from '../../../../utils/accounts/accounts'
+import { consumeOneTimeToken } from '../../../../utils/accounts/one-time-tokens'
+import { httpError } from '../../../../utils/http/errors'
+import { limitRate } from '../../../../utils/http/rate-limit'
+import { readValidated } from '../../../../utils/http/validation'
 
 defineRouteMeta({ openAPI: { tags: ['account'], summary: 'Set a new password with the token from the reset link' } })
 

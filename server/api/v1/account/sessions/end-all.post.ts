@@ -1,6 +1,6 @@
-import { requireUser } from '../../../../utils/auth'
-import { audit } from '../../../../utils/audit'
-import { endAllSessions } from '../../../../utils/sessions'
+import { requireUser } from '../../../../utils/accounts/auth'
+import { audit } from '../../../../utils/storage/audit'
+import { endAllSessions } from '../../../../utils/accounts/sessions'
 
 defineRouteMeta({
   openAPI: {

@@ -1,6 +1,6 @@
-import { revokeApiToken } from '../../../../utils/accounts'
-import { requireUser } from '../../../../utils/auth'
-import { intParam } from '../../../../utils/params'
+import { revokeApiToken } from '../../../../utils/accounts/accounts'
+import { requireUser } from '../../../../utils/accounts/auth'
+import { intParam } from '../../../../utils/http/params'
 
 defineRouteMeta({ openAPI: { tags: ['account'], summary: 'Revoke one of the caller\'s API tokens' } })
 

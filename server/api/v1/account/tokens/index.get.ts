@@ -1,5 +1,5 @@
-import { listApiTokens } from '../../../../utils/accounts'
-import { requireUser } from '../../../../utils/auth'
+import { listApiTokens } from '../../../../utils/accounts/accounts'
+import { requireUser } from '../../../../utils/accounts/auth'
 
 defineRouteMeta({ openAPI: { tags: ['account'], summary: 'The caller\'s API tokens (never the tokens themselves)' } })
 

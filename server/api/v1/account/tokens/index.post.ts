@@ -1,7 +1,7 @@
-import { createApiToken } from '../../../../utils/accounts'
-import { requireUser } from '../../../../utils/auth'
-import { limitRate } from '../../../../utils/rate-limit'
-import { readValidated } from '../../../../utils/validation'
+import { createApiToken } from '../../../../utils/accounts/accounts'
+import { requireUser } from '../../../../utils/accounts/auth'
+import { limitRate } from '../../../../utils/http/rate-limit'
+import { readValidated } from '../../../../utils/http/validation'
 
 defineRouteMeta({
   openAPI: {

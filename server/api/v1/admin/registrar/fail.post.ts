@@ -1,7 +1,7 @@
-import { requireRole } from '../../../../utils/auth'
-import { httpError } from '../../../../utils/errors'
-import { failLocalRegistrar, localRegistrarState } from '../../../../utils/registrar'
-import { readValidated } from '../../../../utils/validation'
+import { requireRole } from '../../../../utils/accounts/auth'
+import { httpError } from '../../../../utils/http/errors'
+import { failLocalRegistrar, localRegistrarState } from '../../../../utils/services/registrar'
+import { readValidated } from '../../../../utils/http/validation'
 
 defineRouteMeta({
   openAPI: {

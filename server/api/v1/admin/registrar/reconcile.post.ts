@@ -1,4 +1,4 @@
-import { requireRole } from '../../../../utils/auth'
+import { requireRole } from '../../../../utils/accounts/auth'
 import { reconcileIdentifiers } from '../../../../utils/review'
 
 defineRouteMeta({

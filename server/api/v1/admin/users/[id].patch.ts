@@ -1,10 +1,10 @@
 import { eq } from 'drizzle-orm'
-import { requireRole } from '../../../../utils/auth'
-import { audit } from '../../../../utils/audit'
-import { useDb, schema } from '../../../../utils/db'
-import { httpError } from '../../../../utils/errors'
-import { readValidated } from '../../../../utils/validation'
-import { endAllSessions } from '../../../../utils/sessions'
+import { requireRole } from '../../../../utils/accounts/auth'
+import { audit } from '../../../../utils/storage/audit'
+import { useDb, schema } from '../../../../utils/storage/db'
+import { httpError } from '../../../../utils/http/errors'
+import { readValidated } from '../../../../utils/http/validation'
+import { endAllSessions } from '../../../../utils/accounts/sessions'
 
 defineRouteMeta({ openAPI: { tags: ['admin'], summary: 'Change a user\'s role (admin; audited)' } })
 

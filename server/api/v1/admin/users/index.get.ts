@@ -1,6 +1,6 @@
 import { sql } from 'drizzle-orm'
-import { requireRole } from '../../../../utils/auth'
-import { useDb, schema } from '../../../../utils/db'
+import { requireRole } from '../../../../utils/accounts/auth'
+import { useDb, schema } from '../../../../utils/storage/db'
 
 defineRouteMeta({ openAPI: { tags: ['admin'], summary: 'All users with role, verification state and labs (admin)' } })
 

@@ -1,8 +1,8 @@
-import { requireUser } from '../../../../utils/auth'
-import { getDataset } from '../../../../utils/archive'
-import { httpError, MESSAGES } from '../../../../utils/errors'
-import { intParam } from '../../../../utils/params'
-import { datasetAudit } from '../../../../utils/audit'
+import { requireUser } from '../../../../utils/accounts/auth'
+import { getDataset } from '../../../../utils/publishing/archive'
+import { httpError, MESSAGES } from '../../../../utils/http/errors'
+import { intParam } from '../../../../utils/http/params'
+import { datasetAudit } from '../../../../utils/storage/audit'
 
 defineRouteMeta({
   openAPI: { tags: ['review'], summary: 'The audit trail of one dataset (its lab, curators and admins)' }

@@ -1,12 +1,12 @@
 import { eq } from 'drizzle-orm'
-import { getViewer } from '../../../../utils/auth'
-import { defaultVersion, getDataset, isUnderEmbargo } from '../../../../utils/archive'
-import { sendBundle } from '../../../../utils/bundle'
-import { schema } from '../../../../utils/db'
-import { httpError } from '../../../../utils/errors'
-import { publicUrl } from '../../../../utils/mail'
-import { intParam } from '../../../../utils/params'
-import { coerceNumbers, queryValidated } from '../../../../utils/validation'
+import { getViewer } from '../../../../utils/accounts/auth'
+import { defaultVersion, getDataset, isUnderEmbargo } from '../../../../utils/publishing/archive'
+import { sendBundle } from '../../../../utils/bundles/bundle'
+import { schema } from '../../../../utils/storage/db'
+import { httpError } from '../../../../utils/http/errors'
+import { publicUrl } from '../../../../utils/services/mail'
+import { intParam } from '../../../../utils/http/params'
+import { coerceNumbers, queryValidated } from '../../../../utils/http/validation'
 
 defineRouteMeta({
   openAPI: {

@@ -1,8 +1,8 @@
-import { getViewer } from '../../../../utils/auth'
-import { CITATION_FORMATS, renderCitation, type CitationFormat } from '../../../../utils/citation'
-import { citableVersion } from '../../../../utils/dataset-view'
-import { intParam } from '../../../../utils/params'
-import { coerceNumbers, queryValidated } from '../../../../utils/validation'
+import { getViewer } from '../../../../utils/accounts/auth'
+import { CITATION_FORMATS, renderCitation, type CitationFormat } from '../../../../utils/publishing/citation'
+import { citableVersion } from '../../../../utils/publishing/dataset-view'
+import { intParam } from '../../../../utils/http/params'
+import { coerceNumbers, queryValidated } from '../../../../utils/http/validation'
 
 defineRouteMeta({
   openAPI: {

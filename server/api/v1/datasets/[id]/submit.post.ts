@@ -1,6 +1,6 @@
 import { requireEditableDraft } from '../../../../utils/deposit/drafts'
 import { submitDraft } from '../../../../utils/deposit/metadata'
-import { intParam } from '../../../../utils/params'
+import { intParam } from '../../../../utils/http/params'
 
 defineRouteMeta({
   openAPI: {

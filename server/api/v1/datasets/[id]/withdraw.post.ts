@@ -1,7 +1,7 @@
-import { requireRole } from '../../../../utils/auth'
-import { intParam } from '../../../../utils/params'
+import { requireRole } from '../../../../utils/accounts/auth'
+import { intParam } from '../../../../utils/http/params'
 import { withdrawDataset } from '../../../../utils/review'
-import { readValidated } from '../../../../utils/validation'
+import { readValidated } from '../../../../utils/http/validation'
 
 defineRouteMeta({
   openAPI: {

@@ -1,8 +1,8 @@
-import { normalizeEmail, requireLabLead } from '../../../../utils/auth'
-import { inviteToLab } from '../../../../utils/labs'
-import { intParam } from '../../../../utils/params'
-import { limitRate } from '../../../../utils/rate-limit'
-import { readValidated } from '../../../../utils/validation'
+import { normalizeEmail, requireLabLead } from '../../../../utils/accounts/auth'
+import { inviteToLab } from '../../../../utils/accounts/labs'
+import { intParam } from '../../../../utils/http/params'
+import { limitRate } from '../../../../utils/http/rate-limit'
+import { readValidated } from '../../../../utils/http/validation'
 
 defineRouteMeta({ openAPI: { tags: ['labs'], summary: 'Invite someone to the lab by e-mail (lab lead or admin)' } })
 

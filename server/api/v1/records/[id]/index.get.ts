@@ -1,7 +1,7 @@
-import { getViewer } from '../../../../utils/auth'
-import { getRecord } from '../../../../utils/archive'
-import { intParam } from '../../../../utils/params'
-import { structuresFor } from '../../../../utils/structures'
+import { getViewer } from '../../../../utils/accounts/auth'
+import { getRecord } from '../../../../utils/publishing/archive'
+import { intParam } from '../../../../utils/http/params'
+import { structuresFor } from '../../../../utils/search/structures'
 import type { RateRecordV1 } from '../../../../../shared/records/types'
 
 defineRouteMeta({

@@ -1,9 +1,9 @@
-import { getViewer } from '../../../../utils/auth'
-import { getRecord, pagedRecords } from '../../../../utils/archive'
-import { httpError } from '../../../../utils/errors'
-import { intParam } from '../../../../utils/params'
-import { similarTo } from '../../../../utils/search'
-import { coerceNumbers, queryValidated } from '../../../../utils/validation'
+import { getViewer } from '../../../../utils/accounts/auth'
+import { getRecord, pagedRecords } from '../../../../utils/publishing/archive'
+import { httpError } from '../../../../utils/http/errors'
+import { intParam } from '../../../../utils/http/params'
+import { similarTo } from '../../../../utils/search/search'
+import { coerceNumbers, queryValidated } from '../../../../utils/http/validation'
 
 defineRouteMeta({
   openAPI: {

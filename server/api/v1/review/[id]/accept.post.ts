@@ -1,6 +1,6 @@
-import { intParam } from '../../../../utils/params'
+import { intParam } from '../../../../utils/http/params'
 import { acceptVersion, requireCurator } from '../../../../utils/review'
-import { readValidated } from '../../../../utils/validation'
+import { readValidated } from '../../../../utils/http/validation'
 
 defineRouteMeta({
   openAPI: {

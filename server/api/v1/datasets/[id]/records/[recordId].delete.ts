@@ -1,5 +1,5 @@
 import { deleteRecords, requireEditableDraft } from '../../../../../utils/deposit/drafts'
-import { intParam } from '../../../../../utils/params'
+import { intParam } from '../../../../../utils/http/params'
 
 defineRouteMeta({ openAPI: { tags: ['deposit'], summary: 'Delete one record of a draft' } })
 

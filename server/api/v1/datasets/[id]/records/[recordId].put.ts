@@ -5,9 +5,9 @@ import {
   replaceRecord,
   requireEditableDraft
 } from '../../../../../utils/deposit/drafts'
-import { httpError } from '../../../../../utils/errors'
-import { intParam } from '../../../../../utils/params'
-import { readValidated } from '../../../../../utils/validation'
+import { httpError } from '../../../../../utils/http/errors'
+import { intParam } from '../../../../../utils/http/params'
+import { readValidated } from '../../../../../utils/http/validation'
 
 defineRouteMeta({ openAPI: { tags: ['deposit'], summary: 'Replace one record of a draft' } })
 

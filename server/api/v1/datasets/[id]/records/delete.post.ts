@@ -1,6 +1,6 @@
 import { deleteRecords, requireEditableDraft } from '../../../../../utils/deposit/drafts'
-import { intParam } from '../../../../../utils/params'
-import { readValidated } from '../../../../../utils/validation'
+import { intParam } from '../../../../../utils/http/params'
+import { readValidated } from '../../../../../utils/http/validation'
 
 defineRouteMeta({ openAPI: { tags: ['deposit'], summary: 'Delete several records of a draft at once (all or none)' } })
 

@@ -1,8 +1,8 @@
 import { checkRecords } from '../../../../../utils/deposit/check'
 import { ingestContext, recordValidator, requireEditableDraft, writeRecords } from '../../../../../utils/deposit/drafts'
-import { httpError } from '../../../../../utils/errors'
-import { intParam } from '../../../../../utils/params'
-import { readValidated } from '../../../../../utils/validation'
+import { httpError } from '../../../../../utils/http/errors'
+import { intParam } from '../../../../../utils/http/params'
+import { readValidated } from '../../../../../utils/http/validation'
 
 defineRouteMeta({
   openAPI: {

@@ -7,9 +7,9 @@ import {
   storeOriginal
 } from '../../../../../utils/deposit/drafts'
 import { FileProblem, MAX_FILE_BYTES } from '../../../../../utils/deposit/parse'
-import { httpError } from '../../../../../utils/errors'
-import { discardBody, readUploadedFile } from '../../../../../utils/body'
-import { intParam } from '../../../../../utils/params'
+import { httpError } from '../../../../../utils/http/errors'
+import { discardBody, readUploadedFile } from '../../../../../utils/http/body'
+import { intParam } from '../../../../../utils/http/params'
 
 defineRouteMeta({
   openAPI: {

@@ -1,5 +1,5 @@
-import { requireUser } from '../../../../../utils/auth'
-import { intParam } from '../../../../../utils/params'
+import { requireUser } from '../../../../../utils/accounts/auth'
+import { intParam } from '../../../../../utils/http/params'
 import { newVersion } from '../../../../../utils/review'
 
 defineRouteMeta({

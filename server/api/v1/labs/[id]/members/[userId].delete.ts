@@ -1,6 +1,6 @@
-import { requireLabLead } from '../../../../../utils/auth'
-import { removeMember } from '../../../../../utils/labs'
-import { intParam } from '../../../../../utils/params'
+import { requireLabLead } from '../../../../../utils/accounts/auth'
+import { removeMember } from '../../../../../utils/accounts/labs'
+import { intParam } from '../../../../../utils/http/params'
 
 defineRouteMeta({ openAPI: { tags: ['labs'], summary: 'Remove a member from the lab (lab lead or admin)' } })
 

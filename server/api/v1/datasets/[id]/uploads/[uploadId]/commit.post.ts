@@ -7,10 +7,10 @@ import {
   requireEditableDraft,
   writeRecords
 } from '../../../../../../utils/deposit/drafts'
-import { useDb, schema } from '../../../../../../utils/db'
-import { httpError } from '../../../../../../utils/errors'
-import { intParam } from '../../../../../../utils/params'
-import { readValidated } from '../../../../../../utils/validation'
+import { useDb, schema } from '../../../../../../utils/storage/db'
+import { httpError } from '../../../../../../utils/http/errors'
+import { intParam } from '../../../../../../utils/http/params'
+import { readValidated } from '../../../../../../utils/http/validation'
 
 defineRouteMeta({
   openAPI: {

@@ -5,21 +5,21 @@
  * written last, when every payload file's sha256 and size are known. A client that disconnects
  * stops the work.
  */
-import { oneLine } from '../../shared/text'
+import { oneLine } from '../../../shared/text'
 import { createHash } from 'node:crypto'
 import { PassThrough, Readable } from 'node:stream'
 import { ZipArchive } from 'archiver'
 import { sendStream, setHeaders, type H3Event } from 'h3'
 import { eq, inArray, sql, type SQL } from 'drizzle-orm'
-import { useDb, useDbClient, schema } from './db'
-import { cff, dataciteJson, selectionCff, toCitable, type CitableVersion } from './citation'
-import { publicUrl } from './mail'
-import { httpError } from './errors'
-import { clientAddress } from './rate-limit'
-import { CSV_FORMAT, CSV_HEADER, csvLine, recordCsvLine } from '../../shared/records/csv'
-import rateRecordSchema from '../../schemas/rate-record.v1.json'
-import datasetSchema from '../../schemas/dataset.v1.json'
-import type { RateRecordV1 } from '../../shared/records/types'
+import { useDb, useDbClient, schema } from '../storage/db'
+import { cff, dataciteJson, selectionCff, toCitable, type CitableVersion } from '../publishing/citation'
+import { publicUrl } from '../services/mail'
+import { httpError } from '../http/errors'
+import { clientAddress } from '../http/rate-limit'
+import { CSV_FORMAT, CSV_HEADER, csvLine, recordCsvLine } from '../../../shared/records/csv'
+import rateRecordSchema from '../../../schemas/rate-record.v1.json'
+import datasetSchema from '../../../schemas/dataset.v1.json'
+import type { RateRecordV1 } from '../../../shared/records/types'
 
 const { rateRecords: records, datasetVersions: versions, datasets, labs } = schema
 const PAGE = 5000

@@ -4,7 +4,7 @@
  */
 import { randomBytes } from 'node:crypto'
 import { and, eq, gt, inArray } from 'drizzle-orm'
-import { useDb, schema } from './db'
+import { useDb, schema } from '../storage/db'
 import { hashToken } from './secret-hash'
 
 export type TokenPurpose = 'verify' | 'login' | 'reset' | `invite:${number}`

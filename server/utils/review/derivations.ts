@@ -4,12 +4,12 @@
  * versions never change), and the correction version a curator starts from that report.
  */
 import { and, eq, inArray, sql } from 'drizzle-orm'
-import { rederive } from '../../shared/records/derivation'
-import { recordColumns } from '../../shared/records/record-columns'
-import type { RateRecordV1 } from '../../shared/records/types'
-import { audit } from './audit'
-import { schema, type Db, type Tx } from './db'
-import { currentPublishedVersionIds } from './archive'
+import { rederive } from '../../../shared/records/derivation'
+import { recordColumns } from '../../../shared/records/record-columns'
+import type { RateRecordV1 } from '../../../shared/records/types'
+import { audit } from '../storage/audit'
+import { schema, type Db, type Tx } from '../storage/db'
+import { currentPublishedVersionIds } from '../publishing/archive'
 
 const { rateRecords: records, datasetVersions: versions, datasets, labs, dataMigrations } = schema
 

@@ -1,12 +1,12 @@
 /** Sign-up, verification, links, resets and profile changes: the logic behind the account routes. */
 import { randomBytes } from 'node:crypto'
 import { and, eq, isNull } from 'drizzle-orm'
-import { useDb, schema } from './db'
+import { useDb, schema } from '../storage/db'
 import { hashPassword, normalizeEmail } from './auth'
 import { hashToken } from './secret-hash'
 import { createOneTimeToken } from './one-time-tokens'
-import { publicUrl, sendMail } from './mail'
-import { httpError } from './errors'
+import { publicUrl, sendMail } from '../services/mail'
+import { httpError } from '../http/errors'
 import { endAllSessions } from './sessions'
 
 export const emailSchema = { type: 'string', format: 'email', maxLength: 200 } as const

@@ -6,7 +6,7 @@
 import { createTransport, type Transporter } from 'nodemailer'
 import { SMTPServer } from 'smtp-server'
 import { eq } from 'drizzle-orm'
-import { useDb, schema } from './db'
+import { useDb, schema } from '../storage/db'
 
 let transport: Promise<Transporter> | undefined
 let sinkReceived = 0

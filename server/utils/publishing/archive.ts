@@ -3,9 +3,9 @@
  * landing-page data, record lists with facets, and the overview numbers for the home page.
  */
 import { and, desc, eq, inArray, or, sql, type SQL } from 'drizzle-orm'
-import { useDb, schema } from './db'
-import { httpError, MESSAGES } from './errors'
-import type { Viewer } from './auth'
+import { useDb, schema } from '../storage/db'
+import { httpError, MESSAGES } from '../http/errors'
+import type { Viewer } from '../accounts/auth'
 
 const { datasets, datasetVersions: versions, rateRecords: records, labs } = schema
 

@@ -6,7 +6,7 @@
 import { createRequire } from 'node:module'
 import { inArray } from 'drizzle-orm'
 import initRDKitModule from '@rdkit/rdkit'
-import { useDb, schema } from './db'
+import { useDb, schema } from '../storage/db'
 
 type RDKit = Awaited<ReturnType<typeof initRDKitModule>>
 let rdkit: Promise<RDKit> | undefined

@@ -5,10 +5,10 @@
  * from our metadata; the tests parse each with general-purpose parsers (citation-js, yaml) and
  * validate CITATION.cff against the official CFF 1.2.0 schema.
  */
-import { oneLine } from '../../shared/text'
+import { oneLine } from '../../../shared/text'
 import { stringify as toYaml } from 'yaml'
-import type { Creator, DatasetMetadataV1 } from '../../shared/records/types'
-import { publicUrl } from './mail'
+import type { Creator, DatasetMetadataV1 } from '../../../shared/records/types'
+import { publicUrl } from '../services/mail'
 
 export interface CitableVersion {
   datasetId: number

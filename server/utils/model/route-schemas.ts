@@ -11,8 +11,8 @@ import {
   MAX_FIT_POINTS,
   MAX_HUANG_RHYS,
   type FitRequest
-} from '../../shared/physics'
-import { rethrowPhysics } from './errors'
+} from '../../../shared/physics'
+import { rethrowPhysics } from '../http/errors'
 
 export const MAX_CURVE_POINTS = 100_000
 /** Per-term curves multiply the answer by the number of terms: fewer points when they are asked for. */

@@ -1,6 +1,6 @@
 /** One error helper for every route: status, a plain message, and per-field issues (JSON pointers). */
 import { createError } from 'h3'
-import { PhysicsInputError, type InputIssue } from '../../shared/physics/errors'
+import { PhysicsInputError, type InputIssue } from '../../../shared/physics/errors'
 
 export type Issue = InputIssue
 

@@ -1,10 +1,10 @@
 /** Labs and memberships: creation, invitations by e-mail, removal; every change is audited. */
 import { and, eq } from 'drizzle-orm'
-import { useDb, schema } from './db'
-import { httpError, MESSAGES } from './errors'
-import { audit } from './audit'
+import { useDb, schema } from '../storage/db'
+import { httpError, MESSAGES } from '../http/errors'
+import { audit } from '../storage/audit'
 import { createOneTimeToken, consumeOneTimeToken } from './one-time-tokens'
-import { publicUrl, sendMail } from './mail'
+import { publicUrl, sendMail } from '../services/mail'
 import { normalizeEmail, type Viewer } from './auth'
 
 export async function getLabOr404 (id: number) {

@@ -1,11 +1,11 @@
 /** The landing-page shape of a dataset version, shared by the dataset and version routes. */
 import { defaultVersion, getDataset, isUnderEmbargo, versionRecords, type RecordDetail } from './archive'
-import { httpError, MESSAGES } from './errors'
-import type { Viewer } from './auth'
+import { httpError, MESSAGES } from '../http/errors'
+import type { Viewer } from '../accounts/auth'
 import { desc, eq } from 'drizzle-orm'
-import { useDb, schema } from './db'
+import { useDb, schema } from '../storage/db'
 import { jsonLd, toCitable, type CitableVersion } from './citation'
-import { coerceNumbers, queryValidated } from './validation'
+import { coerceNumbers, queryValidated } from '../http/validation'
 import type { H3Event } from 'h3'
 
 /** Records per page of the dataset and version routes: pages, with the total, never a silent cut. */

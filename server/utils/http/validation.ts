@@ -6,10 +6,10 @@ import Ajv2020Module from 'ajv/dist/2020.js'
 import addFormatsModule from 'ajv-formats'
 import type { ErrorObject, ValidateFunction } from 'ajv'
 import { readBody, getQuery, type H3Event } from 'h3'
-import rateRecordSchema from '../../schemas/rate-record.v1.json'
-import datasetSchema from '../../schemas/dataset.v1.json'
+import rateRecordSchema from '../../../schemas/rate-record.v1.json'
+import datasetSchema from '../../../schemas/dataset.v1.json'
 import { httpError, MESSAGES, type Issue } from './errors'
-import { parseDecimal } from '../../shared/records/ingest'
+import { parseDecimal } from '../../../shared/records/ingest'
 
 // ajv and ajv-formats ship CommonJS; under ESM the constructor sits on `.default`.
 const Ajv2020 = ((Ajv2020Module as unknown as { default?: typeof Ajv2020Module }).default

@@ -4,17 +4,15 @@
  */
 import { and, eq, isNull } from 'drizzle-orm'
 import { hash, verify } from '@node-rs/argon2'
-import { recordFailure, slowAfterFailures } from './rate-limit'
+import { recordFailure, slowAfterFailures } from '../http/rate-limit'
 import { hashToken } from './secret-hash'
 import { consumeOneTimeToken } from './one-time-tokens'
 import { getHeader, type H3Event } from 'h3'
 import { getToken } from '#auth'
 import { sessionStands, type SessionClaims } from './sessions'
-import { useDb, schema } from './db'
-import { httpError, MESSAGES } from './errors'
-import type { Role } from '../database/schema'
-
-export { hashToken }
+import { useDb, schema } from '../storage/db'
+import { httpError, MESSAGES } from '../http/errors'
+import type { Role } from '../../database/schema'
 
 export interface Viewer {
   id: string

@@ -6,7 +6,7 @@
  */
 import { randomUUID } from 'node:crypto'
 import { eq, lt, sql } from 'drizzle-orm'
-import { useDb, schema } from './db'
+import { useDb, schema } from '../storage/db'
 
 export const SESSION_MAX_AGE_S = 7 * 24 * 3600
 

@@ -5,11 +5,12 @@
  * records for everyone, a lab's own drafts for its members.
  */
 import { and, asc, eq, gt, inArray, sql } from 'drizzle-orm'
-import { useDb, schema } from './db'
-import type { Viewer } from './auth'
-import { RecordIndex, type SearchAnswer, type SearchDoc, type SearchQuery } from './search-index'
+import { useDb, schema } from '../storage/db'
+import type { Viewer } from '../accounts/auth'
+import { RecordIndex } from './record-index'
+import type { SearchAnswer, SearchDoc, SearchQuery } from './index-schema'
 import { fingerprintsFor } from './structures'
-import type { RateRecordV1 } from '../../shared/records/types'
+import type { RateRecordV1 } from '../../../shared/records/types'
 
 interface State {
   index: RecordIndex

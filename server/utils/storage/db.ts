@@ -8,7 +8,7 @@ import { fileURLToPath } from 'node:url'
 import { createClient, type Client } from '@libsql/client'
 import { drizzle, type LibSQLDatabase } from 'drizzle-orm/libsql'
 import { migrate } from 'drizzle-orm/libsql/migrator'
-import * as schema from '../database/schema'
+import * as schema from '../../database/schema'
 
 export type Db = LibSQLDatabase<typeof schema>
 /** The handle a transaction callback receives (one name for it everywhere). */
@@ -111,7 +111,7 @@ export async function useDb (): Promise<Db> {
     const { url, authToken } = databaseConfig()
     ready = openDatabase(url, authToken).then(async (opened) => {
       // data migrations need the domain helpers, which import this module: loaded here, not at the top
-      const { applyDataMigrations } = await import('./derivations')
+      const { applyDataMigrations } = await import('../review/derivations')
       await applyDataMigrations(opened.db)
       return opened
     })
