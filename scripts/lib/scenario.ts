@@ -3,7 +3,10 @@
  * datasets whose records are generated from the semi-classical rate expression with noise.
  * Nothing here is real: names, labs and numbers are made up and every row is marked as demo data.
  */
-import { BOLTZMANN_J_PER_K, diffusionLimit, drivingForceByProcess, energyFromEv, PLANCK_J_S, rehmWeller, semiclassicalLog10Rates, timeToSeconds } from '../../shared/physics'
+import {
+  BOLTZMANN_J_PER_K, diffusionLimit, drivingForceByProcess, energyFromEv, PLANCK_J_S, rehmWeller,
+  semiclassicalLog10Rates, timeToSeconds
+} from '../../shared/physics'
 import { orcidFromDigits } from '../../shared/identifiers'
 import type { DatasetMetadataV1, Linkage, ProcessKind, RateRecordV1, TechniqueMethod } from '../../shared/records/types'
 

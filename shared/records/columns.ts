@@ -2,160 +2,19 @@
  * The flat, spreadsheet-shaped view of a rate record: one column per field, units in the header
  * ("rate (ns-1)"). Used by the CSV/XLSX templates, the upload check and the entry form alike.
  */
-import {
-  DISTANCE_UNITS,
-  ENERGY_UNITS,
-  POTENTIAL_UNITS,
-  RATE_UNITS,
-  TEMPERATURE_UNITS,
-  TIME_UNITS
-} from '../physics/units'
-import { LINKAGES, PROCESSES, TECHNIQUES } from './types'
+import { ENERGY_UNITS, POTENTIAL_UNITS, RATE_UNITS, TIME_UNITS } from '../physics/units'
+import { TECHNIQUES } from './types'
 import { REFERENCE_ELECTRODES } from '../physics/redox'
+import type { ColumnDef } from './column-def'
+import { SYSTEM_COLUMNS } from './columns-system'
 
-export type ColumnKind = 'text' | 'number' | 'enum'
-export interface ColumnDef {
-  key: string
-  kind: ColumnKind
-  /** Allowed units (first is the default offered in templates); absent for unitless columns. */
-  units?: readonly string[]
-  values?: readonly string[]
-  required?: boolean
-  /** JSON pointer of the field in the built record, for mapping schema errors back to a column. */
-  pointer: string
-  help: string
-  example: string
-}
+export type { ColumnDef, ColumnKind } from './column-def'
 
 const ENERGY = [...ENERGY_UNITS] as string[]
 const BIMOLECULAR = ['M-1 s-1']
 
 export const COLUMNS: ColumnDef[] = [
-  {
-    key: 'donor_name',
-    kind: 'text',
-    required: true,
-    pointer: '/system/donor/name',
-    help: 'Electron donor',
-    example: 'ZnP'
-  },
-  {
-    key: 'donor_class',
-    kind: 'text',
-    pointer: '/system/donor/class',
-    help: 'Chemical class of the donor',
-    example: 'porphyrin'
-  },
-  { key: 'donor_smiles', kind: 'text', pointer: '/system/donor/smiles', help: 'SMILES of the donor', example: '' },
-  {
-    key: 'acceptor_name',
-    kind: 'text',
-    required: true,
-    pointer: '/system/acceptor/name',
-    help: 'Electron acceptor',
-    example: 'C60'
-  },
-  {
-    key: 'acceptor_class',
-    kind: 'text',
-    pointer: '/system/acceptor/class',
-    help: 'Chemical class of the acceptor',
-    example: 'fullerene'
-  },
-  {
-    key: 'acceptor_smiles',
-    kind: 'text',
-    pointer: '/system/acceptor/smiles',
-    help: 'SMILES of the acceptor',
-    example: ''
-  },
-  {
-    key: 'bridge_name',
-    kind: 'text',
-    pointer: '/system/bridge/name',
-    help: 'Bridge or spacer, if any',
-    example: 'phenylene'
-  },
-  {
-    key: 'linkage',
-    kind: 'enum',
-    values: LINKAGES,
-    required: true,
-    pointer: '/system/linkage',
-    help: 'How donor and acceptor are held together',
-    example: 'covalent'
-  },
-  {
-    key: 'process',
-    kind: 'enum',
-    values: PROCESSES,
-    required: true,
-    pointer: '/process',
-    help: 'Kind of electron-transfer step',
-    example: 'charge-separation'
-  },
-  {
-    key: 'initial_state',
-    kind: 'enum',
-    values: ['singlet', 'triplet', 'thermal'],
-    required: true,
-    pointer: '/initialState',
-    help: 'State the reaction starts from',
-    example: 'singlet'
-  },
-  {
-    key: 'solvent',
-    kind: 'text',
-    pointer: '/medium/solvent',
-    help: 'Solvent (name from the reference table fills ε and n)',
-    example: 'benzonitrile'
-  },
-  {
-    key: 'permittivity',
-    kind: 'number',
-    pointer: '/medium/permittivity',
-    help: 'Static permittivity ε_s (dimensionless); from the solvent table when empty',
-    example: ''
-  },
-  {
-    key: 'refractive_index',
-    kind: 'number',
-    pointer: '/medium/refractiveIndex',
-    help: 'Refractive index n_D; from the solvent table when empty',
-    example: ''
-  },
-  {
-    key: 'matrix',
-    kind: 'text',
-    pointer: '/medium/matrix',
-    help: 'Solid matrix or film instead of a solvent',
-    example: ''
-  },
-  {
-    key: 'temperature',
-    kind: 'number',
-    units: TEMPERATURE_UNITS,
-    required: true,
-    pointer: '/temperatureK',
-    help: 'Temperature',
-    example: '298.15'
-  },
-  {
-    key: 'distance_cc',
-    kind: 'number',
-    units: DISTANCE_UNITS,
-    pointer: '/geometry/centerToCenterAngstrom',
-    help: 'Centre-to-centre distance',
-    example: '12.5'
-  },
-  {
-    key: 'distance_ee',
-    kind: 'number',
-    units: DISTANCE_UNITS,
-    pointer: '/geometry/edgeToEdgeAngstrom',
-    help: 'Edge-to-edge distance',
-    example: ''
-  },
+  ...SYSTEM_COLUMNS,
   {
     key: 'rate',
     kind: 'number',

@@ -1,7 +1,7 @@
 import { and, sql } from 'drizzle-orm'
 import { publishedRecordsWhere } from '../../utils/publishing/archive'
 import { runSearch } from '../../utils/search/search'
-import { MAX_BUNDLE_RECORDS, sendBundle } from '../../utils/bundles/bundle'
+import { MAX_BUNDLE_RECORDS, sendBundle } from '../../utils/bundles'
 import { schema } from '../../utils/storage/db'
 import { publicUrl } from '../../utils/services/mail'
 import { readValidated } from '../../utils/http/validation'

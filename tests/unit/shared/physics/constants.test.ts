@@ -3,7 +3,10 @@ import {
   BOLTZMANN_EV_PER_K, COULOMB_EV_ANGSTROM, HBAR_EV_S, HC_EV_NM, KCAL_PER_MOL_PER_EV, KJ_PER_MOL_PER_EV, WAVENUMBER_PER_EV,
   GAS_CONSTANT_J_PER_MOL_K, thermalEnergyEv, PLANCK_EV_S
 } from '../../../../shared/physics/constants'
-import { convertEnergy, energyToEv, evToWavelengthNm, wavelengthNmToEv, temperatureToK, timeToSeconds, distanceToAngstrom, rateToPerSecond } from '../../../../shared/physics/units'
+import {
+  convertEnergy, energyToEv, evToWavelengthNm, wavelengthNmToEv, temperatureToK, timeToSeconds, distanceToAngstrom,
+  rateToPerSecond
+} from '../../../../shared/physics/units'
 
 // Each expected value is the CODATA 2018 recommended value as published by NIST
 // (physics.nist.gov/constants, "CODATA Recommended Values of the Fundamental Physical Constants: 2018"),

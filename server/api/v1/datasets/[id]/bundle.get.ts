@@ -1,7 +1,7 @@
 import { eq } from 'drizzle-orm'
 import { getViewer } from '../../../../utils/accounts/auth'
 import { defaultVersion, getDataset, isUnderEmbargo } from '../../../../utils/publishing/archive'
-import { sendBundle } from '../../../../utils/bundles/bundle'
+import { sendBundle } from '../../../../utils/bundles'
 import { schema } from '../../../../utils/storage/db'
 import { httpError } from '../../../../utils/http/errors'
 import { publicUrl } from '../../../../utils/services/mail'

@@ -1,5 +1,6 @@
 import { getViewer } from '../../../../utils/accounts/auth'
-import { CITATION_FORMATS, renderCitation, type CitationFormat } from '../../../../utils/publishing/citation'
+import { CITATION_FORMATS, type CitationFormat } from '../../../../utils/publishing/citation'
+import { renderCitation } from '../../../../utils/publishing/citation-formats'
 import { citableVersion } from '../../../../utils/publishing/dataset-view'
 import { intParam } from '../../../../utils/http/params'
 import { coerceNumbers, queryValidated } from '../../../../utils/http/validation'
