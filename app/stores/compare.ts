@@ -4,8 +4,9 @@
  * reproduces it; the researcher's own points stay in this browser (localStorage), never uploaded.
  */
 import { defineStore } from 'pinia'
-import type { ModelParams } from '~/components/plot/ModelControls.vue'
-import { MODEL_BOUNDS, MAX_HUANG_RHYS } from '#shared/physics'
+import { MODEL_BOUNDS, MAX_HUANG_RHYS, type SemiclassicalParams } from '#shared/physics'
+
+type ModelParams = SemiclassicalParams
 
 export interface OwnPoint {
   deltaG: number
