@@ -3,12 +3,15 @@ import {
   chargeRecombinationDrivingForce, diffusionLimit, distanceDecay, rateFromLifetimes, rehmWeller, sternVolmer, temperatureSeries,
   transferYield, twoSphereSolventReorganization, PhysicsInputError, BOLTZMANN_EV_PER_K, drivingForceByProcess
 } from '../../../../shared/physics'
+import worked from '../../../fixtures/physics/worked-checks-mpmath.json'
 
 describe('Rehm–Weller driving force', () => {
-  it('SCIENCE.md worked check: E_ox 0.85 V, E_red −0.55 V, E₀₀ 2.10 eV, R 10 Å, ε 35.94 → −0.74007 eV', () => {
+  // worked values: mpmath from CODATA 2018 (scripts/reference/worked_checks.py → worked-checks-mpmath.json);
+  // the expression is Rehm & Weller, Isr. J. Chem. 8, 259 (1970)
+  it('worked check: E_ox 0.85 V, E_red −0.55 V, E₀₀ 2.10 eV, R 10 Å, ε 35.94 → −0.74007 eV', () => {
     const r = rehmWeller({ donorOxidationPotential: 0.85, donorReference: 'SCE', acceptorReductionPotential: -0.55, acceptorReference: 'SCE', excitationEnergy: 2.1, distance: 10, solventPermittivity: 35.94 })
-    expect(r.deltaG).toBeCloseTo(-0.74007, 5)
-    expect(r.terms.coulomb).toBeCloseTo(-0.04007, 5)
+    expect(r.deltaG).toBeCloseTo(worked.checks.rehm_weller.deltaG_eV, 9)
+    expect(r.terms.coulomb).toBeCloseTo(worked.checks.rehm_weller.coulomb_eV, 9)
     expect(r.terms.born).toBe(0)
   })
   it('refuses potentials on different reference electrodes unless an offset is recorded', () => {
@@ -20,18 +23,20 @@ describe('Rehm–Weller driving force', () => {
   })
   it('adds the Born term when the potentials were measured in another solvent', () => {
     const r = rehmWeller({ donorOxidationPotential: 0.85, donorReference: 'SCE', acceptorReductionPotential: -0.55, acceptorReference: 'SCE', excitationEnergy: 2.1, distance: 10, solventPermittivity: 2.38, referencePermittivity: 35.94, donorRadius: 4, acceptorRadius: 4 })
-    // (e²/8πε₀)(1/4 + 1/4)(1/2.38 − 1/35.94) = 7.19982274 · 0.5 · 0.392343…
-    expect(r.terms.born).toBeCloseTo(7.19982274 * 0.5 * (1 / 2.38 - 1 / 35.94), 8)
+    // (e²/8πε₀)(1/4 + 1/4)(1/2.38 − 1/35.94) (Weller, Z. Phys. Chem. 133, 93 (1982)), by mpmath
+    expect(r.terms.born).toBeCloseTo(worked.checks.born_term.value_eV, 9)
     expect(() => rehmWeller({ donorOxidationPotential: 0.85, donorReference: 'SCE', acceptorReductionPotential: -0.55, acceptorReference: 'SCE', excitationEnergy: 2.1, solventPermittivity: 2.38, referencePermittivity: 35.94 })).toThrow(/Ionic radii/)
   })
   it('charge recombination: ΔG°_CR = −(ΔG°_CS + E₀₀)', () => {
-    expect(chargeRecombinationDrivingForce(-0.74007, 2.1)).toBeCloseTo(-1.35993, 10)
+    const cs = worked.checks.rehm_weller.deltaG_eV
+    expect(chargeRecombinationDrivingForce(cs, 2.1)).toBeCloseTo(worked.checks.charge_recombination.deltaG_eV, 12)
   })
 })
 
 describe('reorganization, lifetimes, quenching, analyses', () => {
-  it('two-sphere λ_s check from SCIENCE.md: r = 4, 4 Å, R = 10 Å, n 1.3442, ε 35.94 → 1.13531 eV', () => {
-    expect(twoSphereSolventReorganization({ donorRadius: 4, acceptorRadius: 4, distance: 10, refractiveIndex: 1.3442, staticPermittivity: 35.94 })).toBeCloseTo(1.13531, 5)
+  it('two-sphere λ_s (Marcus, J. Chem. Phys. 24, 966 (1956)): r = 4, 4 Å, R = 10 Å, n 1.3442, ε 35.94 → 1.13531 eV (mpmath)', () => {
+    expect(twoSphereSolventReorganization({ donorRadius: 4, acceptorRadius: 4, distance: 10, refractiveIndex: 1.3442, staticPermittivity: 35.94 }))
+      .toBeCloseTo(worked.checks.two_sphere_lambda_s.value_eV, 9)
     expect(() => twoSphereSolventReorganization({ donorRadius: 6, acceptorRadius: 6, distance: 10, refractiveIndex: 1.3, staticPermittivity: 30 })).toThrow(/overlap/)
   })
   it('two-sphere λ_s refuses n² ≥ ε_s (it used to return a negative λ_s)', () => {
@@ -39,10 +44,10 @@ describe('reorganization, lifetimes, quenching, analyses', () => {
     expect(() => twoSphereSolventReorganization({ donorRadius: 4, acceptorRadius: 4, distance: 10, refractiveIndex: 1.5, staticPermittivity: 2 }))
       .toThrow(/Static permittivity ε_s = 2 is not above n² = 2.2500/)
   })
-  it('k_ET from lifetimes: τ 0.5 ns, τ_ref 5 ns → 1.8e9 s⁻¹, yield 0.9 (SCIENCE.md)', () => {
+  it('k_ET from lifetimes: τ 0.5 ns, τ_ref 5 ns → 1.8e9 s⁻¹, yield 0.9 (k = 1/τ − 1/τ_ref, by mpmath)', () => {
     const k = rateFromLifetimes(0.5e-9, 5e-9)
-    expect(k).toBeCloseTo(1.8e9, -3)
-    expect(transferYield(k, 0.5e-9)).toBeCloseTo(0.9, 12)
+    expect(k / worked.checks.rate_from_lifetimes.rate_per_s).toBeCloseTo(1, 12)
+    expect(transferYield(k, 0.5e-9)).toBeCloseTo(worked.checks.rate_from_lifetimes.yield, 12)
     expect(() => rateFromLifetimes(5e-9, 5e-9)).toThrow('The lifetime with the acceptor must be shorter than the reference lifetime; no electron-transfer rate can be derived')
   })
   it('diffusion limit 8RT/3η for acetonitrile (η 0.341 mPa s, from memory) ≈ 1.9e10 M⁻¹ s⁻¹', () => {
@@ -70,14 +75,15 @@ describe('reorganization, lifetimes, quenching, analyses', () => {
   })
 })
 
-describe('ΔG° from potentials by process (SCIENCE.md worked checks: E_ox 0.85 V, E_red −0.55 V, E₀₀ 2.10 eV, R 10 Å, ε 35.94)', () => {
+describe('ΔG° from potentials by process (worked checks by mpmath: E_ox 0.85 V, E_red −0.55 V, E₀₀ 2.10 eV, R 10 Å, ε 35.94)', () => {
   const inp = { donorOxidationPotential: 0.85, donorReference: 'SCE', acceptorReductionPotential: -0.55, acceptorReference: 'SCE', excitationEnergy: 2.1, distance: 10, solventPermittivity: 35.94 }
   it('charge separation: Rehm–Weller with the ion-pair term → −0.74007 eV', () => {
-    expect(drivingForceByProcess('charge-separation', inp).deltaG).toBeCloseTo(-0.74007, 5)
+    expect(drivingForceByProcess('charge-separation', inp).deltaG).toBeCloseTo(worked.checks.rehm_weller.deltaG_eV, 9)
   })
   it('charge recombination: −(ΔG°_CS + E₀₀) → −1.35993 eV, with or without E₀₀ given', () => {
-    expect(drivingForceByProcess('charge-recombination', inp).deltaG).toBeCloseTo(-1.35993, 5)
-    expect(drivingForceByProcess('charge-recombination', { ...inp, excitationEnergy: 0 }).deltaG).toBeCloseTo(-1.35993, 5)
+    const cr = worked.checks.charge_recombination.deltaG_eV
+    expect(drivingForceByProcess('charge-recombination', inp).deltaG).toBeCloseTo(cr, 9)
+    expect(drivingForceByProcess('charge-recombination', { ...inp, excitationEnergy: 0 }).deltaG).toBeCloseTo(cr, 9)
   })
   it('charge shift and hole transfer: no ion-pair term → −0.70 eV', () => {
     expect(drivingForceByProcess('charge-shift', inp).deltaG).toBeCloseTo(-0.70, 10)

@@ -7,6 +7,7 @@ import {
   convertEnergy, energyToEv, evToWavelengthNm, wavelengthNmToEv, temperatureToK, timeToSeconds, distanceToAngstrom,
   rateToPerSecond
 } from '../../../../shared/physics/units'
+import worked from '../../../fixtures/physics/worked-checks-mpmath.json'
 
 // Each expected value is the CODATA 2018 recommended value as published by NIST
 // (physics.nist.gov/constants, "CODATA Recommended Values of the Fundamental Physical Constants: 2018"),
@@ -24,17 +25,17 @@ describe('constants derived from the SI defining values', () => {
   it.each(CODATA_2018)('%s', (_name, actual, expected) => {
     expect(Math.abs(actual / expected - 1)).toBeLessThan(1e-9)
   })
-  // SCIENCE.md lists these derived figures (computed from CODATA 2018); e²/4πε₀ uses the measured ε₀.
+  // derived figures, from CODATA 2018 (e²/4πε₀ with the measured ε₀); e²/4πε₀ also by mpmath in worked-checks-mpmath.json
   it.each([
     ['kJ/mol per eV', KJ_PER_MOL_PER_EV, 96.48533212],
     ['kcal/mol per eV (thermochemical calorie 4.184 J, exact)', KCAL_PER_MOL_PER_EV, 23.06054783],
-    ['e²/(4πε₀) in eV Å', COULOMB_EV_ANGSTROM, 14.39964548]
+    ['e²/(4πε₀) in eV Å', COULOMB_EV_ANGSTROM, worked.checks.coulomb_eV_A.value]
   ])('%s', (_n, actual, expected) => {
     expect(Math.abs(actual / expected - 1)).toBeLessThan(2e-9)
   })
-  it('k_B T at 298.15 K is 0.025692579 eV and k_B T/h is 6.2124e12 s⁻¹ (SCIENCE.md, from CODATA 2018)', () => {
-    expect(thermalEnergyEv(298.15)).toBeCloseTo(0.025692579, 9)
-    expect(thermalEnergyEv(298.15) / PLANCK_EV_S / 6.2124e12).toBeCloseTo(1, 4)
+  it('k_B T at 298.15 K and k_B T/h (mpmath from CODATA 2018: tests/fixtures/physics/worked-checks-mpmath.json)', () => {
+    expect(thermalEnergyEv(298.15) / worked.checks.kT_eV_298.value).toBeCloseTo(1, 12)
+    expect(thermalEnergyEv(298.15) / PLANCK_EV_S / worked.checks.kT_over_h_298.value).toBeCloseTo(1, 12)
   })
 })
 

@@ -7,6 +7,7 @@ import {
   type SemiclassicalParams
 } from '../../../../shared/physics'
 import { BOLTZMANN_EV_PER_K, HBAR_EV_S } from '../../../../shared/physics/constants'
+import worked from '../../../fixtures/physics/worked-checks-mpmath.json'
 
 /**
  * Slow reference: the semi-classical sum over a fixed, very generous number of terms with a
@@ -31,10 +32,11 @@ const grid = Array.from({ length: 41 }, (_, i) => -3.5 + i * 0.1)
 
 describe('classical Marcus', () => {
   const p = { lambdaTotal: 0.8, coupling: 0.01, temperatureK: 298.15 }
-  it('peaks at ΔG° = −λ with (2π/ħ)V²(4πλk_BT)^(−1/2) (SCIENCE.md limit)', () => {
+  it('peaks at ΔG° = −λ with (2π/ħ)V²(4πλk_BT)^(−1/2) (Marcus 1956; mpmath value in worked-checks-mpmath.json)', () => {
     const kT = BOLTZMANN_EV_PER_K * 298.15
     const expected = 2 * Math.PI / HBAR_EV_S * 0.01 ** 2 / Math.sqrt(4 * Math.PI * 0.8 * kT)
     expect(classicalPeakRate(p) / expected).toBeCloseTo(1, 12)
+    expect(classicalPeakRate(p) / worked.checks.classical_peak.rate_per_s).toBeCloseTo(1, 12)
     const r = classicalLog10Rates([-0.8, -0.79, -0.81], p).log10Rate
     expect(r[0]).toBeCloseTo(Math.log10(expected), 12)
     expect(r[0]!).toBeGreaterThan(r[1]!)
