@@ -2,7 +2,7 @@
  * Physical bounds of every model input: one table read by the physics checks, the fitter and the
  * route request schemas (so the OpenAPI document states the same limits, with units).
  *
- * The ranges are the ones SCIENCE.md gives (common practice, no single source): wide enough for any
+ * The ranges are common practice (no single source): wide enough for any
  * electron-transfer system a lab measures, narrow enough that no input can make the vibronic sum
  * or the fitter run away. Outside them a request gets a 422 naming the field.
  */

@@ -1,4 +1,4 @@
-/** The fit's public shapes: request, point, parameters, result and status, with the names API.md binds. */
+/** The fit's public shapes: request, point, parameters, result and status, with the names the public API binds. */
 export type ModelName = 'classical' | 'semiclassical'
 export const MODEL_PARAMETERS = {
   classical: ['lambdaTotal', 'coupling'],

@@ -123,7 +123,7 @@ export interface ProcessDerivation extends RehmWellerResult {
 
 /**
  * ΔG° from redox potentials by process — the one function that the upload, the entry form, the API's
- * check and the record page use (SCIENCE.md):
+ * check and the record page use (Rehm & Weller 1970; Weller 1982):
  * - charge separation: Rehm–Weller with the ion-pair (Coulomb) and Born terms;
  * - charge recombination to the ground state: −(ΔG°_CS + E₀₀), in which E₀₀ cancels (not needed);
  * - charge shift and hole/electron transfer between ions: e[E_ox − E_red] − E₀₀, no ion-pair term.

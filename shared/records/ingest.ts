@@ -72,7 +72,7 @@ export function checkRecord (r: RateRecordV1, ctx: IngestContext): { issues: Row
       + `${df.redox.referenceOffset} V was applied`
     )
   }
-  // usual ranges: SCIENCE.md, common practice, no single source
+  // usual ranges: common practice, no single source
   if (r.rate.kind === 'unimolecular' && (r.rate.value < 1e3 || r.rate.value > 1e14))
     at(warnings, '/rate/value', `${r.rate.value.toExponential(2)} s⁻¹ is outside the usual 1e3–1e14 s⁻¹`)
   if (r.rate.kind === 'unimolecular' && r.rate.value > 6e12 * (r.temperatureK / 298.15))

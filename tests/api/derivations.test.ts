@@ -1,6 +1,6 @@
 /**
  * ΔG° from redox potentials by process, through every deposit path, the migration of drafts and the
- * curators' report. Worked values from SCIENCE.md (E_ox 0.85 V, E_red −0.55 V vs SCE, E₀₀ 2.10 eV,
+ * curators' report. Worked values by mpmath (tests/fixtures/physics/worked-checks-mpmath.json; E_ox 0.85 V, E_red −0.55 V vs SCE, E₀₀ 2.10 eV,
  * R 10 Å, acetonitrile ε 35.94): charge separation −0.74007 eV, charge recombination −1.35993 eV,
  * charge shift −0.70 eV (no ion-pair term).
  */

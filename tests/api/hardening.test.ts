@@ -100,7 +100,7 @@ describe('who sees and edits what', () => {
     expect((await api(s.url, `/api/v1/datasets/${ids.returnedB}/audit`, { headers: { cookie: curator } })).status).toBe(404)
     expect((await api(s.url, `/api/v1/datasets/${ids.returnedB}/audit`, { headers: { cookie: admin } })).status).toBe(200)
   })
-  it('the solvent table is the admins\' (PRODUCT.md): a curator is refused', async () => {
+  it('the solvent table is the admins\' (README permission table): a curator is refused', async () => {
     expect((await api(s.url, '/api/v1/solvents/1', { method: 'PATCH', headers: { cookie: curator }, json: { source: 'x' } })).status).toBe(403)
     expect((await api(s.url, '/api/v1/solvents/1', { method: 'PATCH', headers: { cookie: admin }, json: { source: 'handbook value, from memory' } })).status).toBe(200)
   })

@@ -9,7 +9,7 @@ afterAll(async () => { await s?.stop() })
 const sc = { model: 'semiclassical', temperatureK: 298.15, lambdaSolvent: 0.6, lambdaInternal: 0.3, vibrationEnergy: 0.18, coupling: 0.005 }
 
 describe('POST /api/v1/model/curve', () => {
-  it('returns the names API.md binds and the same numbers as the science core', async () => {
+  it('returns the names the public API binds (README, /_openapi.json) and the same numbers as the science core', async () => {
     const dg = [-1.2, -0.5, 0.1]
     const r = await api(s.url, '/api/v1/model/curve', { method: 'POST', json: { ...sc, drivingForces: dg } })
     expect(r.status).toBe(200)
@@ -60,7 +60,7 @@ describe('POST /api/v1/model/curve', () => {
 })
 
 describe('POST /api/v1/model/fit', () => {
-  it('fits λ_s and V with the others fixed, with the response names API.md binds', async () => {
+  it('fits λ_s and V with the others fixed, with the response names the public API binds', async () => {
     const truth = { lambdaSolvent: 0.745, lambdaInternal: 0.4, vibrationEnergy: 0.186, coupling: 0.00419, temperatureK: 295 }
     const dg = Array.from({ length: 20 }, (_, i) => -2 + 0.1 * i)
     const y = semiclassicalLog10Rates(dg, truth).log10Rate
@@ -75,7 +75,7 @@ describe('POST /api/v1/model/fit', () => {
     expect(r.data.residuals).toHaveLength(20)
     expect(typeof r.data.chiSquaredReduced).toBe('number')
   })
-  it('takes temperatureK per point (API.md second wave) and answers status and atBound', async () => {
+  it('takes temperatureK per point (the fit request schema) and answers status and atBound', async () => {
     const Ts = [250, 275, 300, 325]
     const points = [-1.3, -0.9, -0.6, -0.3].flatMap(d => Ts.map(T => ({ deltaG: d, temperatureK: T, log10Rate: classicalLog10Rates([d], { lambdaTotal: 1.1, coupling: 0.002, temperatureK: T }).log10Rate[0]! })))
     const r = await api(s.url, '/api/v1/model/fit', { method: 'POST', json: { model: 'classical', temperatureK: 298.15, points } })

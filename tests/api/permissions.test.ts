@@ -1,6 +1,6 @@
 /**
  * Who may do what: every role × every route, asserting the status the permission table in
- * PRODUCT.md implies. Another lab's unpublished rows answer 404, never 403.
+ * the README's "What each role can do" table says. Another lab's unpublished rows answer 404, never 403.
  */
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
 import { api, DEMO, lastMailTo, signIn, startServer, type TestServer } from '../helpers/server'
@@ -66,7 +66,7 @@ const CASES: Case[] = [
     expect: { visitor: 401, contributorA: 202, contributorB: 404, curatorOfA: 403, curatorElsewhere: 404, admin: 202, tokenOfA: 202 } },
   { name: 'remove a non-member from lab A', method: 'DELETE', path: () => `/api/v1/labs/${ids.labA}/members/nobody`,
     expect: { visitor: 401, contributorA: 404, contributorB: 404, curatorOfA: 403, curatorElsewhere: 404, admin: 404, tokenOfA: 404 } },
-  // the solvent table is the admins' (PRODUCT.md's permission table)
+  // the solvent table is the admins' (the README's permission table)
   { name: 'edit a solvent', method: 'PATCH', path: () => `/api/v1/solvents/${ids.solvent}`, body: () => ({ source: 'handbook value, from memory' }),
     expect: { ...all(403), visitor: 401, admin: 200 } },
   { name: 'add a solvent', method: 'POST', path: () => '/api/v1/solvents', body: r => ({ name: `test solvent ${r}`, permittivity: 10, refractiveIndex: 1.4, source: 'invented for a test' }),

@@ -41,7 +41,7 @@ describe('a contributor deposits a dataset', () => {
     await page.fill('#f-delta_g', '-0.5')
     const derived = await page.locator('[data-test=derived]').textContent()
     expect(derived).toContain('k_ET = 1/τ − 1/τ_ref')
-    expect(derived).toContain('1.8000e+9') // 1/0.5 ns − 1/5 ns (SCIENCE.md check)
+    expect(derived).toContain('1.8000e+9') // 1/0.5 ns − 1/5 ns (k = 1/τ − 1/τ_ref; worked-checks-mpmath.json)
     await shot(page, 'deposit-form')
     await page.click('[data-test=add-record]')
     await page.waitForFunction(() => document.body.textContent!.includes('Records (4)'))

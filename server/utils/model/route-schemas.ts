@@ -22,7 +22,7 @@ export const curveBodySchema = {
   type: 'object',
   required: ['model', 'temperatureK', 'coupling', 'drivingForces'],
   additionalProperties: false,
-  description: `Bounds (common practice, SCIENCE.md): T 1–2000 K; λ 0.005–5 eV; λ_i 0–5 eV; ħω 0.005–1 eV; V 1e-9–1 `
+  description: `Bounds (common practice): T 1–2000 K; λ 0.005–5 eV; λ_i 0–5 eV; ħω 0.005–1 eV; V 1e-9–1 `
     + `eV; |ΔG°| ≤ 10 eV; Huang–Rhys factor S = λ_i/ħω ≤ ${MAX_HUANG_RHYS}. The classical model takes lambdaTotal or `
     + `lambdaSolvent + lambdaInternal (added), never both.`,
   properties: {

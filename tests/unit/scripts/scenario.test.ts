@@ -9,7 +9,7 @@ import { BOLTZMANN_J_PER_K, PLANCK_J_S, drivingForceByProcess } from '../../../s
 const all = DATASETS.flatMap(ds => [0, 1].flatMap(v => demoRecords(ds, v).map(r => ({ ds, r }))))
 
 describe('demo scenario chemistry', () => {
-  it('no unimolecular rate above the activationless ceiling k_BT/h (CODATA constants; SCIENCE.md usual ranges)', () => {
+  it('no unimolecular rate above the activationless ceiling k_BT/h (CODATA constants; the ceiling is transition-state theory, Eyring 1935)', () => {
     for (const { r } of all) if (r.rate.kind === 'unimolecular') expect(r.rate.value).toBeLessThanOrEqual(BOLTZMANN_J_PER_K * r.temperatureK / PLANCK_J_S)
   })
   it('acceptors called fullerenes are fullerenes; imides and non-fullerene acceptors are not', () => {

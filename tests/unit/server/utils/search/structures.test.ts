@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest'
-import { bitsToHex, computeStructure, hexToWords, MORGAN, useRDKit } from '../../../server/utils/search/structures'
-import { DEMO_SMILES } from '../../../scripts/lib/scenario'
+import { bitsToHex, computeStructure, hexToWords, MORGAN, useRDKit } from '../../../../../server/utils/search/structures'
+import { DEMO_SMILES } from '../../../../../scripts/lib/scenario'
 
 describe('structures through RDKit', () => {
   it.each([

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest'
-import { compile, compiledValidatorCount, useAjv } from '../../../server/utils/http/validation'
+import { compile, compiledValidatorCount, useAjv } from '../../../../../server/utils/http/validation'
 
 describe('compiled validators', () => {
   it('a schema written inline (a new object per request) is compiled once, not once per request', () => {

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest'
-import { rateLimitSizes, recordFailure, slowAfterFailures } from '../../../server/utils/http/rate-limit'
+import { rateLimitSizes, recordFailure, slowAfterFailures } from '../../../../../server/utils/http/rate-limit'
 
 describe('sign-in failure memory', () => {
   it('stays bounded when every attempt names a new account, and still slows the account being tried now', async () => {

@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest'
-import { RecordIndex } from '../../../server/utils/search/record-index'
-import { tanimoto, topK } from '../../../server/utils/search/index-math'
-import type { SearchDoc } from '../../../server/utils/search/index-schema'
+import { RecordIndex } from '../../../../../server/utils/search/record-index'
+import { tanimoto, topK } from '../../../../../server/utils/search/index-math'
+import type { SearchDoc } from '../../../../../server/utils/search/index-schema'
 
 const base: Omit<SearchDoc, 'id'> = {
   datasetId: 1, labId: 1, visibility: 'public', donor: 'zinc porphyrin', acceptor: 'C60', bridge: '', classes: 'porphyrin fullerene', solvent: 'toluene',

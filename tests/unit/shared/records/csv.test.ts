@@ -1,6 +1,6 @@
 import Papa from 'papaparse'
 import { describe, expect, it } from 'vitest'
-import { csvFile, neutralizeCell } from '../../../shared/records/csv'
+import { csvFile, neutralizeCell } from '../../../../shared/records/csv'
 
 describe('the one CSV writer (bundles and the Compare export)', () => {
   it('neutralises formula cells (= + - @ at the start: OWASP CSV injection guidance, from memory) and quotes per RFC 4180', () => {
