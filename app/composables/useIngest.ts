@@ -1,6 +1,5 @@
 /** The same row → record → check pipeline the server runs, in the browser (standalone ajv validator). */
 import { ingestRow, type Cell, type IngestContext, type SchemaValidator } from '#shared/records/ingest'
-// @ts-expect-error generated JavaScript module without types
 import validateRecordSchema from '#shared/records/generated/rate-record.validate.mjs'
 
 export async function useIngest () {

@@ -17,10 +17,11 @@ export function apiProblem (e: unknown): ApiProblem {
     data?: { message?: string, data?: { issues?: ApiIssue[] } }
     message?: string
     statusCode?: number
+    status?: number
   } | null
   return {
     message: err?.data?.message ?? err?.message ?? String(e),
     issues: err?.data?.data?.issues,
-    status: err?.statusCode
+    status: err?.statusCode ?? err?.status
   }
 }

@@ -1,5 +1,7 @@
 /** One flat row (CSV/XLSX line or entry form) to a canonical record: units converted, values derived with their formula. */
-import type { PhysicsInputError, DistanceUnit, EnergyUnit, PotentialUnit, RateUnit, TemperatureUnit, TimeUnit } from '../physics'
+import type {
+  PhysicsInputError, RehmWellerInput, DistanceUnit, EnergyUnit, PotentialUnit, RateUnit, TemperatureUnit, TimeUnit
+} from '../physics'
 import {
   distanceToAngstrom, energyToEv, potentialToVolt, rateFromLifetimes, rateToPerSecond, drivingForceByProcess,
   temperatureToK, timeToSeconds, wavelengthNmToEv, LIFETIME_FORMULA
@@ -204,7 +206,7 @@ export function rowToRecord (
       else {
         try {
           const rw = drivingForceByProcess(rec.process, {
-            ...(redox as never),
+            ...(redox as Omit<RehmWellerInput, 'distance' | 'solventPermittivity'>),
             distance: geometry.centerToCenterAngstrom,
             solventPermittivity: eps
           })

@@ -1,6 +1,7 @@
 import { sql } from 'drizzle-orm'
 import { index, integer, real, sqliteTable, text, uniqueIndex } from 'drizzle-orm/sqlite-core'
 import { timestamps } from './columns'
+import type { DatasetMetadataV1, RateRecordV1 } from '../../../shared/records/types'
 import { labs, users } from './accounts'
 
 export const VERSION_STATES = ['draft', 'submitted', 'returned', 'published', 'withdrawn'] as const
@@ -38,7 +39,7 @@ export const datasetVersions = sqliteTable(
     description: text('description').notNull().default(''),
     /** DataCite-compatible citation metadata (creators, keywords, related identifiers, funding …) as JSON. */
     metadata: text('metadata', { mode: 'json' })
-      .$type<Record<string, unknown>>()
+      .$type<Partial<DatasetMetadataV1>>()
       .notNull()
       .default(sql`'{}'`),
     license: text('license').notNull().default('CC-BY-4.0'),
@@ -72,7 +73,7 @@ export const rateRecords = sqliteTable(
     /** Stable id of the record across versions of its dataset (for diffs). */
     recordKey: text('record_key').notNull(),
     /** The full record in the open format (rate-record.v1), canonical units, originals kept inside. */
-    data: text('data', { mode: 'json' }).$type<Record<string, unknown>>().notNull(),
+    data: text('data', { mode: 'json' }).$type<RateRecordV1>().notNull(),
     donorName: text('donor_name').notNull(),
     acceptorName: text('acceptor_name').notNull(),
     bridgeName: text('bridge_name'),

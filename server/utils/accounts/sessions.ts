@@ -11,6 +11,7 @@ import { useDb, schema } from '../storage/db'
 export const SESSION_MAX_AGE_S = 7 * 24 * 3600
 
 export interface SessionClaims {
+  [claim: string]: unknown
   uid?: unknown
   sid?: unknown
   sv?: unknown

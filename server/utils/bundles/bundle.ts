@@ -1,3 +1,5 @@
+// eslint-disable-next-line @typescript-eslint/triple-slash-reference -- an ambient module declaration, which import style cannot bring in
+/// <reference path="../../types/archiver.d.ts" />
 /**
  * Citable, checksummed bundles: a ZIP in BagIt 1.0 layout (RFC 8493), streamed with archiver.
  * Records are read from the database in pages (their CSV lines stored beside them, their JSON as

@@ -25,11 +25,11 @@ export async function sendBundle (event: H3Event, sel: Selection, filename: stri
     )
   const who = clientAddress(event)
   if ((running.get(who) ?? 0) >= MAX_CONCURRENT_BUNDLES) {
-    setHeaders(event, { 'retry-after': '5' })
+    setHeaders(event, { 'retry-after': 5 })
     throw httpError(429, `At most ${MAX_CONCURRENT_BUNDLES} bundles at once per client; wait for one to finish`)
   }
   if (runningTotal >= MAX_BUNDLES_PER_INSTANCE) {
-    setHeaders(event, { 'retry-after': '5' })
+    setHeaders(event, { 'retry-after': 5 })
     throw httpError(503, `The server is making ${MAX_BUNDLES_PER_INSTANCE} bundles already; try again in a few seconds`)
   }
   running.set(who, (running.get(who) ?? 0) + 1)

@@ -125,7 +125,7 @@ export async function writeRecords (
       versionId,
       position: maxPos + i + 1,
       recordKey: randomUUID(),
-      data: data as unknown as Record<string, unknown>,
+      data,
       ...recordColumns(data)
     }))
     for (let i = 0; i < rows.length; i += 500) await tx.insert(schema.rateRecords).values(rows.slice(i, i + 500))
@@ -170,7 +170,7 @@ export async function replaceRecord (versionId: number, recordId: number, data: 
   const db = await useDb()
   const rows = await db
     .update(schema.rateRecords)
-    .set({ data: data as unknown as Record<string, unknown>, ...recordColumns(data), updatedAt: new Date() })
+    .set({ data, ...recordColumns(data), updatedAt: new Date() })
     .where(and(eq(schema.rateRecords.id, recordId), eq(schema.rateRecords.versionId, versionId)))
     .returning({ id: schema.rateRecords.id })
   if (!rows.length) throw httpError(404, 'No such record in this draft')

@@ -36,7 +36,7 @@ export function limitRate (event: H3Event, key: string, limit: number, windowSec
   w.count++
   if (w.count > limit) {
     const retry = Math.max(1, Math.ceil((w.start + windowSeconds * 1000 - now) / 1000))
-    setHeader(event, 'Retry-After', String(retry))
+    setHeader(event, 'Retry-After', retry)
     throw httpError(429, `Too many attempts; try again in ${retry} s`)
   }
 }

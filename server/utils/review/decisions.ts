@@ -120,7 +120,7 @@ export async function acceptVersion (
       state: 'published',
       doi: ids.version,
       publishedAt: now,
-      metadata: { ...(version.metadata as object), publicationYear: now.getUTCFullYear() } as never
+      metadata: { ...version.metadata, publicationYear: now.getUTCFullYear() }
     })
     await tx.update(datasets).set({ conceptDoi: ids.concept, updatedAt: now }).where(eq(datasets.id, datasetId))
     await tx

@@ -6,7 +6,6 @@
 import { and, eq, inArray, sql } from 'drizzle-orm'
 import { rederive } from '../../../shared/records/derivation'
 import { recordColumns } from '../../../shared/records/record-columns'
-import type { RateRecordV1 } from '../../../shared/records/types'
 import { audit } from '../storage/audit'
 import { schema, type Db, type Tx } from '../storage/db'
 import { currentPublishedVersionIds } from '../publishing/archive'
@@ -27,11 +26,11 @@ async function rederiveVersions (tx: Tx | Db, versionIds: number[]): Promise<{ c
     )
   const ids: number[] = []
   for (const row of rows) {
-    const r = rederive(row.data as unknown as RateRecordV1)
+    const r = rederive(row.data)
     if (!r) continue
     await tx
       .update(records)
-      .set({ data: r.record as unknown as Record<string, unknown>, ...recordColumns(r.record), updatedAt: new Date() })
+      .set({ data: r.record, ...recordColumns(r.record), updatedAt: new Date() })
       .where(eq(records.id, row.id))
     ids.push(row.id)
   }
@@ -121,7 +120,7 @@ export async function derivationReport (db: Db): Promise<DerivationReportItem[]>
     )
   const out = new Map<number, DerivationReportItem>()
   for (const row of rows) {
-    const r = rederive(row.data as unknown as RateRecordV1)
+    const r = rederive(row.data)
     if (!r) continue
     let item = out.get(row.datasetId)
     if (!item) {

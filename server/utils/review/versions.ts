@@ -49,7 +49,7 @@ async function copyToDraft (tx: Tx, latest: Version): Promise<Version> {
       state: 'draft',
       title: latest.title,
       description: latest.description,
-      metadata: { ...(latest.metadata as object), publicationYear: undefined } as never,
+      metadata: { ...latest.metadata, publicationYear: undefined },
       license: latest.license,
       embargoUntil: latest.embargoUntil,
       recordCount: latest.recordCount

@@ -110,7 +110,7 @@ async function* loadDocs (datasetIds?: number[]): AsyncGenerator<SearchDoc[]> {
         x.id,
         {
           ...x,
-          keywords: ((x.metadata as { keywords?: string[] }).keywords ?? []).join(' '),
+          keywords: (x.metadata.keywords ?? []).join(' '),
           year: x.publishedAt ? x.publishedAt.getUTCFullYear() : null,
           visibility:
             x.state === 'published' && x.versionNumber === x.newestPublished

@@ -2,7 +2,6 @@ import { getViewer } from '../../../../utils/accounts/auth'
 import { getRecord } from '../../../../utils/publishing/archive'
 import { intParam } from '../../../../utils/http/params'
 import { structuresFor } from '../../../../utils/search/structures'
-import type { RateRecordV1 } from '../../../../../shared/records/types'
 
 defineRouteMeta({
   openAPI: {
@@ -16,7 +15,7 @@ defineRouteMeta({
 export default defineEventHandler(async (event) => {
   const id = intParam(event, 'id')
   const { record, version, dataset, labName } = await getRecord(await getViewer(event), id)
-  const data = record.data as unknown as RateRecordV1
+  const data = record.data
   const species = (['donor', 'acceptor', 'bridge'] as const).filter(k => data.system[k]?.smiles)
   const known = await structuresFor(species.map(k => data.system[k]!.smiles!))
   const structures = Object.fromEntries(

@@ -37,7 +37,7 @@ export default defineEventHandler(async (event) => {
   const { viewer, version } = draft
   // at most MAX_CHECKS_AT_ONCE files are read and checked at once on this instance: memory stays bounded
   if (checksRunning >= MAX_CHECKS_AT_ONCE) {
-    setHeader(event, 'retry-after', '5')
+    setHeader(event, 'retry-after', 5)
     await discardBody(event, MAX_FILE_BYTES + 65536)
     throw httpError(429, `The server is checking ${MAX_CHECKS_AT_ONCE} uploads already; try again in a few seconds`)
   }
