@@ -20,7 +20,7 @@ export default {
           900: '#11262b'
         },
         paper: { 50: '#fdfcf9', 100: '#f8f5ee', 200: '#efe9dc' },
-        copper: { 400: '#d68a4f', 500: '#c0702f', 600: '#9c5824' },
+        copper: { 200: '#f2cda9', 400: '#d68a4f', 500: '#c0702f', 600: '#9c5824' },
         ok: '#2f7d4f',
         warn: '#a86a00',
         bad: '#b3261e'

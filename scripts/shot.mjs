@@ -3,7 +3,7 @@ import { chromium } from 'playwright-core'
 
 const [base, ...paths] = process.argv.slice(2)
 const browser = await chromium.launch({ executablePath: '/usr/bin/chromium', headless: true, args: ['--no-sandbox', '--disable-gpu', '--disable-quic', '--no-first-run', '--disable-background-networking', '--disable-component-update', '--disable-sync'] })
-const page = await browser.newPage({ viewport: { width: 1360, height: 900 } })
+const page = await browser.newPage({ viewport: { width: Number(process.env.SHOT_WIDTH ?? 1360), height: 900 } })
 const errors = []
 page.on('console', (m) => { if (m.type() === 'error') errors.push(`${page.url()}: ${m.text()}`) })
 page.on('pageerror', e => errors.push(`${page.url()}: ${e.message}`))

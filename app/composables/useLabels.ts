@@ -29,3 +29,7 @@ export function fmtRate (v: number | null | undefined): string {
 export function fmtDate (d: string | Date | null | undefined): string {
   return d ? new Date(d).toISOString().slice(0, 10) : '—'
 }
+/** "1 record", "2 records", "1 372 records": a count with its noun in the right number. */
+export function plural (n: number, one: string, many = `${one}s`): string {
+  return `${n.toLocaleString('en')} ${n === 1 ? one : many}`
+}

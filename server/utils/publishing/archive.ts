@@ -2,7 +2,7 @@
  * Reading the archive with the viewer's rights: which versions a viewer may see, dataset lists,
  * landing-page data, record lists with facets, and the overview numbers for the home page.
  */
-import { and, desc, eq, inArray, or, sql, type SQL } from 'drizzle-orm'
+import { and, asc, desc, eq, inArray, or, sql, type SQL } from 'drizzle-orm'
 import { useDb, schema } from '../storage/db'
 import { httpError, MESSAGES } from '../http/errors'
 import type { Viewer } from '../accounts/auth'
@@ -119,13 +119,32 @@ export function isUnderEmbargo (v: { embargoUntil: string | null }): boolean {
 
 /** Columns of a version's records: `summary` leaves out each record's full JSON (tables and plots need only these). */
 export type RecordDetail = 'full' | 'summary'
+/** Columns a version's records can be sorted by (`sort=deltaG`, `sort=-log10Rate`); ties keep the deposit order. */
+export const RECORD_SORTS = ['position', 'donorName', 'acceptorName', 'bridgeName', 'process', 'solvent', 'deltaG',
+  'log10Rate', 'temperatureK', 'distanceAngstrom'] as const
+export type RecordSort = (typeof RECORD_SORTS)[number]
+/** Every record's id, ΔG°, log10 k and medium, in deposit order: what a plot of the whole version needs. */
+export async function versionPoints (versionId: number, limit: number) {
+  const db = await useDb()
+  return db
+    .select({ id: records.id, deltaG: records.deltaG, log10Rate: records.log10Rate, solvent: records.solvent })
+    .from(records)
+    .where(eq(records.versionId, versionId))
+    .orderBy(records.position)
+    .limit(limit)
+}
+
 export async function versionRecords (
   versionId: number,
   range: { offset: number, limit: number },
-  detail: RecordDetail = 'full'
+  detail: RecordDetail = 'full',
+  sort: string = 'position'
 ) {
   const { offset, limit } = range
   const db = await useDb()
+  const key = sort.replace(/^-/, '') as RecordSort
+  const column = records[RECORD_SORTS.includes(key) ? key : 'position']
+  const order = sort.startsWith('-') ? [desc(column), records.position] : [asc(column), records.position]
   const summary = {
     id: records.id,
     position: records.position,
@@ -145,18 +164,12 @@ export async function versionRecords (
     linkage: records.linkage
   }
   if (detail === 'summary')
-    return db
-      .select(summary)
-      .from(records)
-      .where(eq(records.versionId, versionId))
-      .orderBy(records.position)
-      .limit(limit)
-      .offset(offset)
+    return db.select(summary).from(records).where(eq(records.versionId, versionId)).orderBy(...order).limit(limit).offset(offset)
   return db
     .select({ ...summary, data: records.data })
     .from(records)
     .where(eq(records.versionId, versionId))
-    .orderBy(records.position)
+    .orderBy(...order)
     .limit(limit)
     .offset(offset)
 }

@@ -1,5 +1,5 @@
 /** The landing-page shape of a dataset version, shared by the dataset and version routes. */
-import { defaultVersion, getDataset, isUnderEmbargo, versionRecords, type RecordDetail } from './archive'
+import { defaultVersion, getDataset, isUnderEmbargo, versionPoints, versionRecords, RECORD_SORTS, type RecordDetail } from './archive'
 import { httpError, MESSAGES } from '../http/errors'
 import type { Viewer } from '../accounts/auth'
 import { desc, eq } from 'drizzle-orm'
@@ -15,24 +15,26 @@ const DETAIL_QUERY = {
   type: 'object',
   additionalProperties: false,
   properties: {
-    records: { enum: ['full', 'summary'] },
+    records: { enum: ['full', 'summary', 'points'] },
+    sort: { enum: RECORD_SORTS.flatMap(k => [k, `-${k}`]) },
     page: { type: 'integer', minimum: 1, maximum: 1_000_000 },
     pageSize: { type: 'integer', minimum: 1, maximum: MAX_RECORD_PAGE }
   }
 }
 export interface RecordQuery {
-  detail?: RecordDetail
+  detail?: RecordDetail | 'points'
+  sort?: string
   page: number
   pageSize: number
 }
 /** The `records`, `page` and `pageSize` query parameters of the dataset and version routes (422 naming a bad one). */
 export function recordDetailOf (event: H3Event): RecordQuery {
-  const q = queryValidated<{ records?: RecordDetail, page?: number, pageSize?: number }>(
+  const q = queryValidated<{ records?: RecordDetail | 'points', sort?: string, page?: number, pageSize?: number }>(
     event,
     DETAIL_QUERY,
     coerceNumbers(['page', 'pageSize'])
   )
-  return { detail: q.records, page: q.page ?? 1, pageSize: q.pageSize ?? MAX_RECORD_PAGE }
+  return { detail: q.records, sort: q.sort, page: q.page ?? 1, pageSize: q.pageSize ?? MAX_RECORD_PAGE }
 }
 
 /** A published (or withdrawn) version in the shape the citation formats take. */
@@ -113,13 +115,16 @@ export async function datasetView (
       publishedAt: v.publishedAt,
       recordCount: v.recordCount
     })),
-    records: hideRecords
-      ? []
-      : await versionRecords(
-          version.id,
-          { offset: (rq.page - 1) * rq.pageSize, limit: rq.pageSize },
-          rq.detail ?? 'full'
-        ),
+    records:
+      hideRecords || rq.detail === 'points'
+        ? []
+        : await versionRecords(
+            version.id,
+            { offset: (rq.page - 1) * rq.pageSize, limit: rq.pageSize },
+            rq.detail ?? 'full',
+            rq.sort
+          ),
+    points: rq.detail === 'points' && !hideRecords ? await versionPoints(version.id, rq.pageSize) : undefined,
     recordPage: { page: rq.page, pageSize: rq.pageSize, total: hideRecords ? 0 : version.recordCount },
     review: isMember ? await reviewNotes(version.id) : null,
     jsonLd:

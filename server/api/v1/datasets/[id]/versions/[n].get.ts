@@ -11,8 +11,16 @@ defineRouteMeta({
       {
         in: 'query',
         name: 'records',
-        description: 'full (default): each record with its JSON; summary: the table columns only',
-        schema: { type: 'string', enum: ['full', 'summary'] }
+        description: 'full (default): each record with its JSON; summary: the table columns only; '
+          + 'points: id, ΔG°, log10 k and medium only (for plots)',
+        schema: { type: 'string', enum: ['full', 'summary', 'points'] }
+      },
+      {
+        in: 'query',
+        name: 'sort',
+        description: 'Order of the records: a column (position, donorName, acceptorName, bridgeName, process, solvent, '
+          + 'deltaG, log10Rate, temperatureK, distanceAngstrom), with a leading - for descending; ties keep the deposit order',
+        schema: { type: 'string' }
       },
       {
         in: 'query',
