@@ -29,6 +29,7 @@ Sign in at ${base}/signin with password "crosspoint-demo" as:
   contributor  sunniva.orrel@lindqvale.example        (Orrel Solar-Fuels Group, lead)
   contributor  kasimir.delacombe@marrowfield.example  (Delacombe Bio-ET Lab, lead)
   curator      pia.veldhaus@brightwater.example        (member of Faulkwood Ultrafast Lab)
+  curator      ansel.moravec@lindqvale.example         (member of Orrel Solar-Fuels Group)
   admin        rowan.tessaly@crosspoint.example
 
 ▸ Serving on ${base}

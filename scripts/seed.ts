@@ -38,8 +38,9 @@ export async function seed (url = process.env.NUXT_DATABASE_URL ?? 'file:./data/
         await db.insert(schema.labMemberships).values({ labId: labIds[p.lab]!, userId: id, isLead: p.lead }).onConflictDoNothing()
       }
     }
-    const curator = PEOPLE.find(p => p.role === 'curator')!
     for (const [n, ds] of DATASETS.entries()) {
+      // a curator never reviews their own lab's work, in the demo history too
+      const curator = PEOPLE.find(p => p.role === 'curator' && p.lab !== ds.lab)!
       const existing = await db.select({ id: schema.datasets.id }).from(schema.datasets).where(eq(schema.datasets.seedKey, ds.key))
       if (existing.length) continue
       const owner = PEOPLE.find(p => p.lab === ds.lab && p.role === 'contributor')!

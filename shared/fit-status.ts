@@ -2,7 +2,7 @@
 export const FIT_STATUS_TEXT = {
   'converged': 'Converged: a minimum with every free parameter inside its range.',
   'at-bound':
-    'Best fit at the edge of the allowed range for the parameter(s) marked below: a constrained minimum, not a free one.',
+    'Best fit at the edge of the allowed range for the parameters marked below: a constrained minimum, not a free one.',
   'stalled':
     'Not converged: the optimizer stopped without confirming a minimum. The values are the best found, not a result.'
 } as const

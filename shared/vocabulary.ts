@@ -62,3 +62,8 @@ const UNIT_LABELS: Record<string, string> = {
 export function unitLabel (code: string | undefined): string {
   return code === undefined ? '' : UNIT_LABELS[code] ?? code
 }
+
+/** "1 record", "2 records", "1,372 records": a count with its noun in the right number (screens and messages alike). */
+export function countOf (n: number, one: string, many = `${one}s`): string {
+  return `${n.toLocaleString('en')} ${n === 1 ? one : many}`
+}

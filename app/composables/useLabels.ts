@@ -1,3 +1,5 @@
+import { countOf } from '#shared/vocabulary'
+
 /** Plain-language labels for the format's enumerations. */
 export const PROCESS_LABELS: Record<string, string> = {
   'charge-separation': 'charge separation',
@@ -31,5 +33,5 @@ export function fmtDate (d: string | Date | null | undefined): string {
 }
 /** "1 record", "2 records", "1 372 records": a count with its noun in the right number. */
 export function plural (n: number, one: string, many = `${one}s`): string {
-  return `${n.toLocaleString('en')} ${n === 1 ? one : many}`
+  return countOf(n, one, many)
 }

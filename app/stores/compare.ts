@@ -30,6 +30,7 @@ export const useCompareStore = defineStore('compare', () => {
   const params = ref<ModelParams>({ ...DEFAULT_PARAMS })
   const showClassical = ref(true)
   const showTerms = ref(false)
+  const view = ref<'plot' | 'map'>('plot')
 
   function add (ids: number[]) {
     recordIds.value = [...new Set([...recordIds.value, ...ids])].slice(0, 5000)
@@ -50,7 +51,10 @@ export const useCompareStore = defineStore('compare', () => {
     li: params.value.lambdaInternal,
     hw: params.value.vibrationEnergy,
     v: params.value.coupling,
-    t: params.value.temperatureK
+    t: params.value.temperatureK,
+    cl: showClassical.value ? undefined : '0',
+    terms: showTerms.value ? '1' : undefined,
+    view: view.value === 'map' ? 'map' : undefined
   }))
   function fromQuery (q: Record<string, unknown>) {
     const num = (k: string, d: number) => {
@@ -59,6 +63,9 @@ export const useCompareStore = defineStore('compare', () => {
     }
     if (typeof q.ids === 'string' && /^\d+(,\d+)*$/.test(q.ids)) recordIds.value = q.ids.split(',').map(Number)
     if (['dataset', 'solvent', 'process', 'temperature'].includes(String(q.group))) groupBy.value = q.group as GroupBy
+    showClassical.value = q.cl !== '0'
+    showTerms.value = q.terms === '1'
+    view.value = q.view === 'map' ? 'map' : 'plot'
     const next = {
       lambdaSolvent: num('ls', DEFAULT_PARAMS.lambdaSolvent),
       lambdaInternal: num('li', DEFAULT_PARAMS.lambdaInternal),
@@ -102,6 +109,7 @@ export const useCompareStore = defineStore('compare', () => {
     params,
     showClassical,
     showTerms,
+    view,
     add,
     remove,
     clear,

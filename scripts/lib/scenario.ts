@@ -57,6 +57,8 @@ export const PEOPLE = [
   { email: 'sunniva.orrel@lindqvale.example', name: 'Sunniva Orrel', role: 'contributor', lab: 'orrel-solar-fuels', lead: true, orcid: orcidFromDigits('000000000010002') },
   { email: 'kasimir.delacombe@marrowfield.example', name: 'Kasimir Delacombe', role: 'contributor', lab: 'delacombe-bio-et', lead: true, orcid: orcidFromDigits('000000000010003') },
   { email: 'pia.veldhaus@brightwater.example', name: 'Pia Veldhaus', role: 'curator', lab: 'faulkwood-ultrafast', lead: false, orcid: orcidFromDigits('000000000010004') },
+  // a second curator in another lab, so that every lab's submissions have someone who may review them
+  { email: 'ansel.moravec@lindqvale.example', name: 'Ansel Moravec', role: 'curator', lab: 'orrel-solar-fuels', lead: false, orcid: orcidFromDigits('000000000010005') },
   { email: 'rowan.tessaly@crosspoint.example', name: 'Rowan Tessaly', role: 'admin', lab: null, lead: false, orcid: null }
 ] as const
 

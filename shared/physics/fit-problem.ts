@@ -5,6 +5,7 @@
 import { IssueCollector } from './errors'
 import { checkBound, checkHuangRhys, MAX_HUANG_RHYS, MODEL_BOUNDS } from './bounds'
 import { createClassicalEvaluator, createSemiclassicalEvaluator } from './rates'
+import { countOf } from '../vocabulary'
 import {
   DEFAULT_INITIAL,
   LOG10_RATE_RANGE,
@@ -134,7 +135,7 @@ export function prepare (req: FitRequest): { prob: Problem, Tmin: number, Tmax: 
   else if (n < free.length)
     c.add(
       '/points',
-      `Under-determined fit: ${n} point(s) for ${free.length} free parameter(s); fix parameters or add points`
+      `Under-determined fit: ${countOf(n, 'point')} for ${countOf(free.length, 'free parameter')}; fix parameters or add points`
     )
   c.throwIfAny()
 

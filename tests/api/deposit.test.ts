@@ -189,13 +189,15 @@ describe('good uploads, the form and the API agree', () => {
     const ok = await api(s.url, `/api/v1/datasets/${draftId}/records/delete`, { method: 'POST', headers: { cookie: a }, json: { ids: [third.id] } })
     expect(ok.data.recordCount).toBe(d.data.records.length - 2)
   })
-  it('submits once metadata and records validate; curators are mailed; the draft is then locked', async () => {
+  it('submits once metadata and records validate; curators of other labs are mailed (not the lab\'s own); the draft is then locked', async () => {
     const r = await api(s.url, `/api/v1/datasets/${draftId}/submit`, { method: 'POST', headers: { cookie: a } })
     expect(r.status, JSON.stringify(r.data)).toBe(200)
     expect(r.data.state).toBe('submitted')
     const admin = await signIn(s.url, DEMO.admin)
     const mail = (await api(s.url, '/api/v1/admin/outbox', { headers: { cookie: admin } })).data.items
-    expect(mail.filter((m: any) => m.subject === 'Submitted for review: Uploads under test').map((m: any) => m.to).sort()).toEqual([DEMO.curator, DEMO.admin].sort())
+    const sub = mail.filter((m: any) => m.subject === 'Submitted for review: Uploads under test')
+    expect(sub.map((m: any) => m.to).sort()).toEqual([DEMO.curatorB, DEMO.admin].sort()) // Pia is in the submitting lab
+    expect(sub[0].text).toContain(`/review/${draftId}`)
     expect((await upload(draftId, 'good.csv', readFileSync(join(FIX, 'good.csv')))).status).toBe(409)
   })
 })

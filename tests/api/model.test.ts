@@ -88,7 +88,7 @@ describe('POST /api/v1/model/fit', () => {
   it('422 for an under-determined fit, with the reason', async () => {
     const r = await api(s.url, '/api/v1/model/fit', { method: 'POST', json: { model: 'classical', temperatureK: 295, points: [{ deltaG: -1, log10Rate: 9 }] } })
     expect(r.status).toBe(422)
-    expect(r.data.message).toBe('Under-determined fit: 1 point(s) for 2 free parameter(s); fix parameters or add points')
+    expect(r.data.message).toBe('Under-determined fit: 1 point for 2 free parameters; fix parameters or add points')
     expect(r.data.data.issues[0].path).toBe('/points')
   })
   it('422 naming each bad point field', async () => {

@@ -47,7 +47,7 @@ describe('compare', () => {
     await page.fill('textarea[aria-label="Your points"]', '-0.85, 10.2, 0.1\n-1.1, 10.6')
     await page.getByRole('button', { name: 'Add points' }).click()
     await page.reload({ waitUntil: 'networkidle' })
-    await page.waitForFunction(() => document.body.textContent!.includes('2 point(s) of your own.'))
+    await page.waitForFunction(() => document.body.textContent!.includes('2 points of your own.'))
     expect(page.url()).not.toContain('10.2')
     expect(errors).toEqual([])
     await page.close()

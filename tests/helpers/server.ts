@@ -157,6 +157,7 @@ export const DEMO = {
   contributorB: 'sunniva.orrel@lindqvale.example',
   contributorC: 'kasimir.delacombe@marrowfield.example',
   curator: 'pia.veldhaus@brightwater.example',
+  curatorB: 'ansel.moravec@lindqvale.example',
   admin: 'rowan.tessaly@crosspoint.example'
 }
 

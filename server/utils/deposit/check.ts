@@ -76,7 +76,7 @@ function checkHeaders (headers: string[]): { keys: (string | null)[], units: Rec
   if (issues.length)
     throw new FileProblem(
       422,
-      unknown.length ? `Unknown column(s): ${unknown.join(', ')}` : 'The header row has problems',
+      unknown.length ? `Unknown ${unknown.length === 1 ? 'column' : 'columns'}: ${unknown.join(', ')}` : 'The header row has problems',
       issues
     )
   return { keys, units }

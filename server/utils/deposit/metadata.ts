@@ -1,5 +1,5 @@
 /** Draft datasets: creation, citation metadata (dataset.v1) and submission for review. */
-import { eq, inArray } from 'drizzle-orm'
+import { and, eq, inArray, sql } from 'drizzle-orm'
 import datasetSchema from '../../../schemas/dataset.v1.json'
 import { isValidDoi, isValidOrcid } from '../../../shared/identifiers'
 import { hasControlChars, hasOtherControlChars } from '../../../shared/text'
@@ -13,6 +13,7 @@ import { ingestContext, recordValidator } from './drafts'
 import type { Viewer } from '../accounts/auth'
 import type { DatasetMetadataV1 } from '../../../shared/records/types'
 import { afterDatasetChange } from '../search/search'
+import { countOf } from '../../../shared/vocabulary'
 
 /** The dataset schema's own properties, so that the API and the schema can never disagree. */
 export const datasetMetaSchema = {
@@ -151,7 +152,10 @@ export async function submissionProblems (version: Version): Promise<Issue[]> {
 
 export async function submitDraft (viewer: Viewer, version: Version) {
   const problems = await submissionProblems(version)
-  if (problems.length) throw httpError(422, `${problems.length} problem(s) stand in the way of review`, problems)
+  if (problems.length) {
+    const verb = problems.length === 1 ? 'stands' : 'stand'
+    throw httpError(422, `${countOf(problems.length, 'problem')} ${verb} in the way of review`, problems)
+  }
   const db = await useDb()
   await db
     .update(schema.datasetVersions)
@@ -159,16 +163,21 @@ export async function submitDraft (viewer: Viewer, version: Version) {
     .where(eq(schema.datasetVersions.id, version.id))
   await audit(viewer.id, 'dataset.submitted', 'dataset_version', version.id, { from: version.state })
   await afterDatasetChange(version.datasetId)
+  // curators and admins who may review it: not the members of the dataset's own lab
+  const lab = await db.select({ labId: schema.datasets.labId }).from(schema.datasets).where(eq(schema.datasets.id, version.datasetId))
   const curators = await db
     .select({ email: schema.users.email })
     .from(schema.users)
-    .where(inArray(schema.users.role, ['curator', 'admin']))
+    .where(and(
+      inArray(schema.users.role, ['curator', 'admin']),
+      sql`${schema.users.id} not in (select user_id from lab_membership where lab_id = ${lab[0]!.labId})`
+    ))
   for (const c of curators) {
     await sendMail(
       c.email,
       `Submitted for review: ${version.title}`,
       `${viewer.name ?? viewer.email} submitted "${version.title}" (${version.recordCount} records) for `
-      + `review.\n${publicUrl(`/datasets/${version.datasetId}`)}\n`
+      + `review.\nReview it: ${publicUrl(`/review/${version.datasetId}`)}\n`
     )
   }
   return { state: 'submitted' }

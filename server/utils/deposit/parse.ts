@@ -8,6 +8,7 @@ import { Readable } from 'node:stream'
 import ExcelJS from 'exceljs'
 import { Unzip, UnzipInflate } from 'fflate'
 import type { RowIssue } from '../../../shared/records/ingest'
+import { countOf } from '../../../shared/vocabulary'
 
 export interface Table {
   headers: string[]
@@ -251,7 +252,7 @@ export async function parseXlsx (buf: Uint8Array): Promise<Table> {
     throw new FileProblem(422, 'The file is not a readable XLSX workbook', [{ path: '/file', message: 'not XLSX' }])
   }
   if (!chosen) throw new FileProblem(422, 'The workbook has no sheet', [{ path: '/file', message: 'no sheet' }])
-  if (issues.length) throw new FileProblem(422, `The workbook has ${issues.length} formula or error cell(s)`, issues)
+  if (issues.length) throw new FileProblem(422, `The workbook has ${countOf(issues.length, 'formula or error cell')}`, issues)
   const [headers, ...rows] = chosen.rows
   if (!headers) throw new FileProblem(422, 'The sheet is empty', [{ path: '/file', message: 'no header row' }])
   return { headers: headers.map(h => String(h ?? '')), rows }

@@ -13,6 +13,7 @@ import {
   type FitRequest
 } from '../../../shared/physics'
 import { rethrowPhysics } from '../http/errors'
+import { countOf } from '../../../shared/vocabulary'
 
 export const MAX_CURVE_POINTS = 100_000
 /** Per-term curves multiply the answer by the number of terms: fewer points when they are asked for. */
@@ -114,9 +115,11 @@ function rates (log10: Float64Array): { rate: (number | null)[], notes: string[]
   const notes: string[] = []
   if (under)
     notes.push(
-      `${under} rate(s) are below the smallest double (about 1e-308 s⁻¹) and are given as 0; log10Rate is exact.`
+      `${countOf(under, 'rate')} ${under === 1 ? 'is' : 'are'} below the smallest double (about 1e-308 s⁻¹), given as 0; `
+      + 'log10Rate is exact.'
     )
-  if (over) notes.push(`${over} rate(s) are above the largest double and are given as null; log10Rate is exact.`)
+  if (over)
+    notes.push(`${countOf(over, 'rate')} ${over === 1 ? 'is' : 'are'} above the largest double, given as null; log10Rate is exact.`)
   return { rate, notes }
 }
 

@@ -12,6 +12,7 @@ import { publicUrl, sendMail } from '../services/mail'
 import { afterDatasetChange } from '../search/search'
 import { labEmails, transition } from './common'
 import { hashData, submittedFor } from './queue'
+import { countOf } from '../../../shared/vocabulary'
 
 const { datasets, labs, recordComments, rateRecords: records, reviews, datasetVersions: versions } = schema
 
@@ -64,7 +65,7 @@ export async function returnVersion (
       to,
       `Returned with comments: ${version.title}`,
       `A curator returned "${version.title}" (v${version.versionNumber}) for `
-      + `changes.\n\n${b.comment}\n\n${(b.recordComments ?? []).length} record(s) have comments. Answer them and `
+      + `changes.\n\n${b.comment}\n\n${countOf((b.recordComments ?? []).length, 'record')} with comments. Answer them and `
       + `resubmit:\n${publicUrl(`/deposit/${datasetId}`)}\n`
     )
   }
@@ -96,7 +97,7 @@ export async function acceptVersion (
     '/records'
   )
   if (problems.issueCount)
-    throw httpError(422, `The submission has ${problems.issueCount} problem(s); return it instead`, problems.issues)
+    throw httpError(422, `The submission has ${countOf(problems.issueCount, 'problem')}; return it instead`, problems.issues)
   const [lab] = await db.select().from(labs).where(eq(labs.id, dataset.labId))
   const ids = identifiersFor(datasetId, version.versionNumber)
   const now = new Date()

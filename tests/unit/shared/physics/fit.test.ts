@@ -40,7 +40,7 @@ describe('weighted Levenberg–Marquardt fits', () => {
   })
   it('refuses an under-determined fit with a message', () => {
     expect(() => fitRates({ model: 'semiclassical', temperatureK: 295, points: [{ deltaG: -1, log10Rate: 9 }, { deltaG: -0.5, log10Rate: 10 }] }))
-      .toThrow('Under-determined fit: 2 point(s) for 4 free parameter(s); fix parameters or add points')
+      .toThrow('Under-determined fit: 2 points for 4 free parameters; fix parameters or add points')
   })
   it('refuses unknown parameters, non-finite values and half-given uncertainties, naming each field', () => {
     try {

@@ -3,6 +3,7 @@ import { ingestContext, recordValidator, requireEditableDraft, writeRecords } fr
 import { httpError } from '../../../../../utils/http/errors'
 import { intParam } from '../../../../../utils/http/params'
 import { readValidated } from '../../../../../utils/http/validation'
+import { countOf } from '../../../../../../shared/vocabulary'
 
 defineRouteMeta({
   openAPI: {
@@ -24,7 +25,7 @@ export default defineEventHandler(async (event) => {
     properties: { records: { type: 'array', minItems: 1, maxItems: 10000 } }
   })
   const res = await checkRecords(records, recordValidator(), await ingestContext(), '/records')
-  if (res.issueCount) throw httpError(422, `${res.issueCount} problem(s) in the records; nothing was added`, res.issues)
+  if (res.issueCount) throw httpError(422, `${countOf(res.issueCount, 'problem')} in the records; nothing was added`, res.issues)
   const total = await writeRecords(version.id, res.records, 'append')
   setResponseStatus(event, 201)
   return { added: res.records.length, recordCount: total, warnings: res.warnings }

@@ -11,6 +11,7 @@ import { useDb, schema } from '../../../../../../utils/storage/db'
 import { httpError } from '../../../../../../utils/http/errors'
 import { intParam } from '../../../../../../utils/http/params'
 import { readValidated } from '../../../../../../utils/http/validation'
+import { countOf } from '../../../../../../../shared/vocabulary'
 
 defineRouteMeta({
   openAPI: {
@@ -55,7 +56,7 @@ export default defineEventHandler(async (event) => {
   if (res.issueCount)
     throw httpError(
       422,
-      `The file has ${res.issueCount} problem(s); fix them and upload again. Nothing was added.`,
+      `The file has ${countOf(res.issueCount, 'problem')}; fix them and upload again. Nothing was added.`,
       res.issues
     )
   // claimed in the rows' own transaction: of two commits at once, one adds the rows and the other is refused
