@@ -1,7 +1,8 @@
 /** Queries over the record index: filters, text hits, ordering, facet counts and ranges. */
 import MiniSearch from 'minisearch'
 import {
-  FACET_FIELDS, FIELD_NO, FIRST_YEAR, MAX_QUERY_TERMS, type NumberColumn, type SearchAnswer, type SearchQuery, YEAR_SPAN
+  FACET_FIELDS, FIELD_NO, FIRST_YEAR, MAX_QUERY_TERMS, type NumberColumn, type SearchAnswer, type SearchQuery, YEAR_SPAN,
+  expandSynonyms
 } from './index-schema'
 import { topK } from './index-math'
 import { IndexStore } from './index-store'
@@ -122,7 +123,7 @@ export class QueryableIndex extends IndexStore {
     const tokenize = MiniSearch.getDefault('tokenize') as (t: string) => string[]
     const process = MiniSearch.getDefault('processTerm') as (t: string) => string | null | undefined
     const bit = new Map<string, number>()
-    for (const t of tokenize(q)) {
+    for (const t of tokenize(expandSynonyms(q))) {
       const p = process(t)
       if (p && !bit.has(p) && bit.size < MAX_QUERY_TERMS) bit.set(p, 1 << bit.size)
     }

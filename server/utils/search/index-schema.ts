@@ -49,9 +49,13 @@ export type TextField = (typeof TEXT_FIELDS)[number]
 export const FIELD_NO = Object.fromEntries(TEXT_FIELDS.map((f, i) => [f, i])) as Record<TextField, number>
 
 /** Prefix matching from 3 characters and typo tolerance (at most 2 edits) from 5: short terms explode the candidate set. */
+/**
+ * Typo tolerance: one edit from 5 letters, two from 6 (a swapped pair of letters is two edits: "toleune",
+ * "proetin" and "iriidum" find toluene, protein and iridium).
+ */
 export const SEARCH_OPTIONS = {
   prefix: (term: string) => term.length >= 3,
-  fuzzy: (term: string) => (term.length >= 5 ? 0.2 : false),
+  fuzzy: (term: string) => (term.length >= 6 ? 2 : term.length >= 5 ? 1 : false),
   maxFuzzy: 2,
   boost: { donor: 3, acceptor: 3, bridge: 2, classes: 2, datasetTitle: 1.5, solvent: 1.5 }
 }
@@ -98,4 +102,47 @@ export function grow<T extends Float64Array | Int32Array | Uint8Array> (a: T, si
   const b = new (a.constructor as new (n: number) => T)(Math.max(size, a.length * 2, 1024))
   b.set(a)
   return b
+}
+
+/**
+ * Substituent and multiplier prefixes of systematic names: "N,N-dimethylaniline" is also indexed as
+ * "methylaniline" and "aniline", so that the parent compound finds its derivatives (common practice in
+ * chemical text search; the list is the usual substituent prefixes of IUPAC names).
+ */
+const NAME_PREFIXES = ['di', 'tri', 'tetra', 'bis', 'tris', 'methyl', 'ethyl', 'propyl', 'butyl', 'tert', 'phenyl',
+  'benzyl', 'methoxy', 'ethoxy', 'amino', 'nitro', 'cyano', 'chloro', 'bromo', 'fluoro', 'iodo', 'hydroxy', 'oxo', 'aza']
+const DEFAULT_TOKENIZE = (text: string) => text.split(/[\n\r\p{Z}\p{P}]+/u).filter(Boolean)
+export function indexTokenize (text: string): string[] {
+  const out: string[] = []
+  for (const token of DEFAULT_TOKENIZE(text)) {
+    out.push(token)
+    let rest = token.toLowerCase()
+    for (let guard = 0; rest.length >= 8 && guard < 6; guard++) {
+      const p = NAME_PREFIXES.find(x => rest.startsWith(x) && rest.length - x.length >= 4)
+      if (!p) break
+      rest = rest.slice(p.length)
+      out.push(rest)
+    }
+  }
+  return out
+}
+export { DEFAULT_TOKENIZE as queryTokenize }
+
+/**
+ * Names people type for what records write as abbreviations (and the reverse is found anyway, as the
+ * abbreviation is a word of the record): the query phrase is searched as the abbreviation.
+ */
+export const SEARCH_SYNONYMS: [RegExp, string][] = [
+  [/\bzinc[\s-]+porphyrins?\b/g, 'ZnP'],
+  [/\bfree[\s-]+base[\s-]+porphyrins?\b/g, 'H2P'],
+  [/\bperylene[\s-]+di-?imides?\b/g, 'PDI'],
+  [/\bnaphthalene[\s-]+di-?imides?\b/g, 'NDI'],
+  [/\bpyromellitic[\s-]+di-?imides?\b/g, 'PMI'],
+  [/\bmethyl[\s-]+viologen\b/g, 'MV'],
+  [/\bbuckminsterfullerene\b/g, 'C60']
+]
+export function expandSynonyms (q: string): string {
+  let out = q.toLowerCase()
+  for (const [re, to] of SEARCH_SYNONYMS) out = out.replace(re, to)
+  return out
 }

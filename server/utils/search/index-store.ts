@@ -1,6 +1,9 @@
 /** The record index's storage: a value dictionary with posting lists, and typed-array columns per record. */
 import MiniSearch from 'minisearch'
-import { FACET_FIELDS, NUMBERS, type NumberColumn, SEARCH_OPTIONS, type SearchDoc, TEXT_FIELDS, type TextField, grow } from './index-schema'
+import {
+  FACET_FIELDS, NUMBERS, type NumberColumn, SEARCH_OPTIONS, type SearchDoc, TEXT_FIELDS, type TextField, grow,
+  indexTokenize, queryTokenize
+} from './index-schema'
 
 export class IndexStore {
   /** minisearch over distinct values: document id = value id, the text in the field it came from. */
@@ -8,7 +11,8 @@ export class IndexStore {
     fields: [...TEXT_FIELDS],
     storeFields: [],
     idField: 'id',
-    searchOptions: SEARCH_OPTIONS
+    tokenize: indexTokenize,
+    searchOptions: { ...SEARCH_OPTIONS, tokenize: queryTokenize }
   })
 
   // value dictionary (text fields and SMILES share it; SMILES are not put into minisearch)

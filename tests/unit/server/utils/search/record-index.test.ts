@@ -31,6 +31,24 @@ describe('RecordIndex search', () => {
     expect(ix.search({ q: 'secret', page: 1, pageSize: 10 }, { labIds: [1] }).total).toBe(0)
     expect(ids(ix.search({ q: 'secret', page: 1, pageSize: 10 }, { labIds: [2] }))).toEqual([4])
   })
+  it('finds what people type: swapped letters, parent compounds in systematic names, common names of abbreviations', () => {
+    const ix = new RecordIndex()
+    ix.add([
+      doc(1, { donor: 'ZnP', classes: 'porphyrin', solvent: 'toluene' }),
+      doc(2, { donor: 'N,N-dimethylaniline', acceptor: 'Ir(ppy)3', classes: 'amine iridium complex', solvent: 'acetonitrile' }),
+      doc(3, { donor: 'azurin', classes: 'protein', solvent: 'water' })
+    ])
+    const q = (text: string) => ids(ix.search({ q: text, page: 1, pageSize: 10 }, null))
+    // a swapped pair of letters is two edits (Damerau); from 6 letters two edits are allowed
+    expect(q('toleune')).toEqual([1])
+    expect(q('proetin')).toEqual([3])
+    expect(q('iriidum')).toEqual([2])
+    // the parent compound finds its N,N-dimethyl derivative
+    expect(q('aniline')).toEqual([2])
+    // the words people use for the abbreviation a record writes
+    expect(q('zinc porphyrin')).toEqual([1])
+    expect(q('ZnP')).toEqual([1])
+  })
   it('filters by facet values and ranges; a record without a value is outside any range', () => {
     const ix = fixture()
     expect(ids(ix.search({ deltaGMin: -1, deltaGMax: -0.5, page: 1, pageSize: 10 }, null))).toEqual([1])
