@@ -33,6 +33,9 @@ describe('a curator returns, the contributor answers, the curator accepts', () =
     await cur.page.fill('[data-test=overall-comment]', 'One rate needs a second look.')
     await cur.page.click('[data-test=return]')
     await cur.page.waitForSelector('[data-test=review-outcome]')
+    // the page follows the decision: no second set of buttons, the comment shown beside its record
+    expect(await cur.page.locator('[data-test=return]').count()).toBe(0)
+    expect(await cur.page.locator('[data-test=earlier-comment]').first().textContent()).toContain('Is this rate in ns⁻¹ really?')
     await shot(cur.page, 'review-returned')
 
     const con = await newPage(browser)
@@ -49,10 +52,13 @@ describe('a curator returns, the contributor answers, the curator accepts', () =
     await con.page.waitForFunction(() => document.body.textContent!.includes('Submitted for review'))
 
     await cur.page.goto(`${s.url}/review/${id}`, { waitUntil: 'networkidle' })
-    expect(await cur.page.locator('[data-test=since-return]').textContent()).toContain('1 changed (rows 2)')
+    expect(await cur.page.locator('[data-test=since-return]').textContent()).toContain('1 record changed (rows 2)')
+    // the curator's comment from the return is still shown beside the record when the dataset comes back
+    expect(await cur.page.locator('[data-test=earlier-comment]').first().textContent()).toContain('Is this rate in ns⁻¹ really?')
     await cur.page.click('[data-test=accept]')
     await cur.page.waitForSelector('[data-test=review-outcome]')
     expect(await cur.page.locator('[data-test=review-outcome]').textContent()).toBe(`Published as 10.99999/cp.${id}.v1.`)
+    expect(await cur.page.locator('[data-test=accept]').count()).toBe(0)
     await shot(cur.page, 'review-accepted')
 
     const vis = await newPage(browser)
