@@ -11,7 +11,7 @@ process.env.NUXT_DATABASE_URL = `file:${join(dir, 'bench.db')}`
 const { openDatabase, schema } = await import('../server/utils/storage/db')
 const { writeBundle } = await import('../server/utils/bundles')
 const { DATASETS, demoRecords } = await import('../scripts/lib/scenario')
-const { recordColumns } = await import('../shared/records/types')
+const { recordColumns } = await import('../shared/records/record-columns')
 
 const { db, client } = await openDatabase(process.env.NUXT_DATABASE_URL)
 const [lab] = await db.insert(schema.labs).values({ slug: 'bench', name: 'Bench lab (invented)' }).returning()

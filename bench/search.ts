@@ -18,7 +18,7 @@ const { openDatabase, schema } = await import('../server/utils/storage/db')
 const { toDoc } = await import('../server/utils/search/search')
 const { RecordIndex } = await import('../server/utils/search/record-index')
 const { DATASETS, demoRecords } = await import('../scripts/lib/scenario')
-const { recordColumns } = await import('../shared/records/types')
+const { recordColumns } = await import('../shared/records/record-columns')
 
 const pool = DATASETS.flatMap(ds => demoRecords(ds, 0))
 const N = 100_000
