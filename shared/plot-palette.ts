@@ -11,4 +11,5 @@ export const PLOT_PALETTE = [
   '#c24b4b',
   '#6d7f8c'
 ]
-export const CURVE_COLORS = { classical: '#11262b', semiclassical: '#c0702f' }
+/** Model curves in near-black, apart from every data colour above; the classical curve is also dashed. */
+export const CURVE_COLORS = { classical: '#3b3f46', semiclassical: '#101418' }

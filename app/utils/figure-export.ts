@@ -1,4 +1,5 @@
 /** Figures and files saved from the browser: an SVG with its citing caption under the plot, its PNG, any blob. */
+import { csvFile } from '#shared/records/csv'
 
 /** The plot's SVG with the caption written under it in lines of at most 150 characters, as a standalone file. */
 export function captionedSvg (svg: SVGSVGElement, caption: string): string {
@@ -43,4 +44,28 @@ export async function svgToPng (svg: string): Promise<Blob | null> {
   ctx.scale(2, 2)
   ctx.drawImage(img, 0, 0)
   return new Promise(resolve => c.toBlob(resolve, 'image/png'))
+}
+
+/**
+ * The points and curves of a comparison as CSV through the shared writer (RFC 4180 quoting, formula cells
+ * such as = + - @ neutralised, as in the bundles).
+ */
+export function comparisonCsv (
+  points: { id?: number, deltaG: number, log10Rate: number, group?: string }[],
+  rows: { id: number, doi: string | null }[],
+  curves: { name: string, points: { deltaG: number, log10Rate: number }[] }[]
+): string {
+  const out: unknown[][] = []
+  for (const p of points)
+    out.push(['point', p.id ?? '', rows.find(r => r.id === p.id)?.doi ?? '', p.deltaG, p.log10Rate, String(p.group ?? '')])
+  for (const c of curves) for (const q of c.points) out.push([`curve ${c.name}`, '', '', q.deltaG, q.log10Rate, ''])
+  return csvFile(['kind', 'record_id', 'dataset_identifier', 'delta_g (eV)', 'log10_rate (log10 s-1)', 'group'], out)
+}
+
+/** The citations of several datasets in one format, one after another. */
+export async function citationsOf (datasetIds: number[], format: 'bibtex' | 'ris'): Promise<string> {
+  const parts = await Promise.all(
+    datasetIds.map(id => $fetch<string>(`/api/v1/datasets/${id}/citation?format=${format}`, { responseType: 'text' }))
+  )
+  return parts.join('\n')
 }

@@ -168,7 +168,7 @@ describe('citations of the published version', () => {
     expect(dc.relatedIdentifiers).toEqual(expect.arrayContaining([{ relatedIdentifier: `10.99999/cp.${id}`, relatedIdentifierType: 'DOI', relationType: 'IsVersionOf' }]))
   })
   it('CITATION.cff parses as YAML and validates against the official CFF 1.2.0 schema', async () => {
-    const schemaPath = resolve(ROOT, '../shared/standards/cff-1.2.0.schema.json')
+    const schemaPath = resolve(ROOT, 'tests/fixtures/standards/cff-1.2.0.schema.json') // the official schema, copied (see its README)
     const schema = JSON.parse(readFileSync(schemaPath, 'utf8'))
     const doc = parseYaml(await get('cff'))
     const ajv = new AjvDraft7({ allErrors: true, strict: false })

@@ -13,7 +13,10 @@ describe('full-text search', () => {
     ['a typo in a class name', 'q=porphirin', (r: any) => r.datasetTitle.toLowerCase().includes('porphyrin')],
     ['a prefix of a donor name', 'q=dimethoxynaph', (r: any) => r.donorName === 'dimethoxynaphthalene'],
     ['a typo in a solvent', 'q=benzonitril', (r: any) => r.solvent === 'benzonitrile'],
-    ['an acceptor with punctuation', 'q=viologen', (r: any) => ['MV2+', 'BV2+'].includes(r.acceptorName)]
+    ['an acceptor with punctuation', 'q=viologen', (r: any) => ['MV2+', 'BV2+'].includes(r.acceptorName)],
+    ['swapped letters in a solvent', 'q=toleune', (r: any) => r.solvent === 'toluene'],
+    ['the common name of an abbreviation', 'q=zinc%20porphyrin', (r: any) => r.donorName.startsWith('ZnP')],
+    ['a parent compound inside a systematic name', 'q=aniline', (r: any) => /aniline/i.test(r.donorName)]
   ])('finds the right records for %s', async (_n, qs, ok) => {
     const r = await search(`${qs}&pageSize=100`)
     expect(r.total).toBeGreaterThan(0)

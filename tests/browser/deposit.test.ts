@@ -46,8 +46,15 @@ describe('a contributor deposits a dataset', () => {
     await page.click('[data-test=add-record]')
     await page.waitForFunction(() => document.body.textContent!.includes('Records (4)'))
 
+    // submitting asks first, naming what is sent
+    let asked = ''
+    page.once('dialog', (d) => {
+      asked = d.message()
+      void d.accept()
+    })
     await page.click('[data-test=submit-review]')
     await page.waitForFunction(() => document.body.textContent!.includes('Submitted for review'))
+    expect(asked).toMatch(/^Submit ".+" with \d+ records? for review\?/)
     await shot(page, 'deposit-submitted')
     const a = await signIn(s.url, DEMO.contributorA)
     const d = await api(s.url, `/api/v1/datasets/${id}/versions/1`, { headers: { cookie: a } })

@@ -48,6 +48,7 @@ describe('a curator returns, the contributor answers, the curator accepts', () =
     const rec = d.data.records[1]
     await api(s.url, `/api/v1/datasets/${id}/records/${rec.id}`, { method: 'PUT', headers: { cookie: b }, json: { record: { ...rec.data, rate: { value: 3.4e8, kind: 'unimolecular', method: 'direct' } } } })
     await con.page.reload({ waitUntil: 'networkidle' })
+    con.page.once('dialog', d => void d.accept())
     await con.page.click('[data-test=submit-review]')
     await con.page.waitForFunction(() => document.body.textContent!.includes('Submitted for review'))
 
