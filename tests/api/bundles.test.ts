@@ -100,6 +100,15 @@ describe('selection bundles', () => {
     const readme = files.get('data/README.md')!.toString()
     expect(readme).toMatch(/mixes licences: (CC-BY-4.0, CC0-1.0|CC0-1.0, CC-BY-4.0)/)
     expect(files.get('data/CITATION.cff')!.toString()).toContain('references:')
+    // named after what it holds and described in words, not as raw JSON
+    expect(r.headers.get('content-disposition')).toMatch(/^attachment; filename="crosspoint-search-\d{4}-\d{2}-\d{2}\.zip"$/)
+    const info = files.get('bag-info.txt')!.toString()
+    expect(info).toContain('External-Description: search: solvent water')
+    expect(info).not.toMatch(/[{}]/)
+  })
+  it('a search with words is named after them', async () => {
+    const r = await download('/api/v1/bundles', { method: 'POST', headers: { 'content-type': 'application/json' }, body: JSON.stringify({ query: { q: 'Zinc porphyrin!' } }) })
+    expect(r.headers.get('content-disposition')).toMatch(/filename="crosspoint-zinc-porphyrin-\d{4}-\d{2}-\d{2}\.zip"/)
   })
   it('a visitor\'s selection by ids holds no unpublished record, even when draft ids are asked for', async () => {
     const cookie = await signIn(s.url, DEMO.contributorA)

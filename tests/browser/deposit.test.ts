@@ -32,7 +32,9 @@ describe('a contributor deposits a dataset', () => {
     await page.click('[data-test=commit-append]')
     await page.waitForFunction(() => document.body.textContent!.includes('Records (3)'))
 
-    // by hand: the rate comes from lifetimes and the form shows the formula
+    // by hand: nothing in red before anything is typed; the rate comes from lifetimes and the form shows the formula
+    expect(await page.locator('[data-test=form-status]').textContent()).toBe('Fill in the fields marked *.')
+    expect(await page.locator('label[for=f-delta_g]').textContent()).toContain('Driving force ΔG°')
     await page.fill('#f-donor_name', 'ZnP')
     await page.fill('#f-acceptor_name', 'NDI')
     await page.fill('#f-solvent', 'toluene')
@@ -45,6 +47,9 @@ describe('a contributor deposits a dataset', () => {
     await shot(page, 'deposit-form')
     await page.click('[data-test=add-record]')
     await page.waitForFunction(() => document.body.textContent!.includes('Records (4)'))
+    // the confirmation is where the person is, and the cursor is back on the first field
+    await page.waitForFunction(() => document.querySelector('[data-test=form-status]')?.textContent?.includes('Record added'))
+    expect(await page.evaluate(() => document.activeElement?.id)).toBe('f-donor_name')
 
     // submitting asks first, naming what is sent
     let asked = ''

@@ -5,6 +5,7 @@ import { MAX_BUNDLE_RECORDS, sendBundle } from '../../utils/bundles'
 import { schema } from '../../utils/storage/db'
 import { publicUrl } from '../../utils/services/mail'
 import { readValidated } from '../../utils/http/validation'
+import { countOf } from '../../../shared/vocabulary'
 
 defineRouteMeta({
   openAPI: {
@@ -49,6 +50,15 @@ const body = {
   }
 }
 
+/** A search in words for people: "porphyrin"; solvent toluene; deltaGMin -1. */
+function queryInWords (q: Record<string, unknown>): string {
+  return Object.entries(q).map(([k, v]) => (k === 'q' ? `"${String(v)}"` : `${k} ${String(v)}`)).join('; ') || 'everything published'
+}
+/** Letters, digits and dashes only, at most 40: safe in a file name on every system. */
+function slug (s: string): string {
+  return s.toLowerCase().normalize('NFKD').replace(/[^a-z0-9]+/g, '-').replace(/^-+|-+$/g, '').slice(0, 40)
+}
+
 export default defineEventHandler(async (event) => {
   const b = await readValidated<{ query?: Record<string, string | number>, recordIds?: number[] }>(event, body)
   const { lab, ...rest } = (b.query ?? {}) as Record<string, never>
@@ -61,11 +71,10 @@ export default defineEventHandler(async (event) => {
     publishedRecordsWhere(),
     sql`${schema.rateRecords.id} in (select value from json_each(${JSON.stringify(ids)}))`
   )!
-  const description = b.recordIds ? `${b.recordIds.length} chosen records` : `search ${JSON.stringify(b.query)}`
+  // said in words in bag-info and named after what it holds (a query's words, or the count of chosen records)
+  const description = b.recordIds ? countOf(b.recordIds.length, 'chosen record') : `search: ${queryInWords(b.query ?? {})}`
   const qs = new URLSearchParams(Object.entries(b.query ?? {}).map(([k, v]) => [k, String(v)])).toString()
-  return sendBundle(
-    event,
-    { where, description, source: publicUrl(`/explore${qs ? '?' + qs : ''}`) },
-    'crosspoint-selection.zip'
-  )
+  const day = new Date().toISOString().slice(0, 10)
+  const what = b.recordIds ? `${b.recordIds.length}-records` : (slug(String(b.query?.q ?? '')) || 'search')
+  return sendBundle(event, { where, description, source: publicUrl(`/explore${qs ? '?' + qs : ''}`) }, `crosspoint-${what}-${day}.zip`)
 })

@@ -153,7 +153,6 @@ export async function writeBundle (
       `Payload-Oxum: ${oxum}`,
       `External-Description: ${sel.description}`,
       `Source: ${sel.source}`,
-      `Crosspoint-Query: ${sel.description}`,
       `Crosspoint-Records: ${count}`,
       ...cited.map(c => `Crosspoint-Dataset: ${c.doi ?? c.landingUrl} (${c.license})`)
     ]
