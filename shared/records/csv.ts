@@ -7,7 +7,7 @@
  */
 import type { RateRecordV1 } from './types'
 
-export const CSV_FORMAT = 1
+export const CSV_FORMAT = 2
 
 export const CSV_COLUMNS: [string, string, (r: RateRecordV1) => unknown][] = [
   ['donor_name', '', r => r.system.donor.name],
@@ -42,6 +42,12 @@ export const CSV_COLUMNS: [string, string, (r: RateRecordV1) => unknown][] = [
     '',
     r => (r.drivingForce?.original ? `${r.drivingForce.original.value} ${r.drivingForce.original.unit}` : undefined)
   ],
+  ['donor_oxidation_potential', 'V', r => r.drivingForce?.redox?.donorOxidationPotential],
+  ['donor_reference', '', r => r.drivingForce?.redox?.donorReference],
+  ['acceptor_reduction_potential', 'V', r => r.drivingForce?.redox?.acceptorReductionPotential],
+  ['acceptor_reference', '', r => r.drivingForce?.redox?.acceptorReference],
+  ['reference_offset', 'V', r => r.drivingForce?.redox?.referenceOffset],
+  ['excitation_energy', 'eV', r => r.drivingForce?.redox?.excitationEnergy],
   ['lambda_solvent', 'eV', r => r.reportedParameters?.lambdaSolvent],
   ['lambda_internal', 'eV', r => r.reportedParameters?.lambdaInternal],
   ['coupling', 'eV', r => r.reportedParameters?.coupling],

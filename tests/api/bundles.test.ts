@@ -95,6 +95,9 @@ describe('selection bundles', () => {
     const { csv, json } = recordsOf(files)
     expect(json.length).toBe(total)
     expect(csv.every(row => row.solvent === 'water')).toBe(true)
+    // the redox inputs travel with the ΔG° derived from them
+    expect(Object.keys(csv[0]!)).toEqual(expect.arrayContaining(['donor_oxidation_potential (V)', 'donor_reference',
+      'acceptor_reduction_potential (V)', 'acceptor_reference', 'reference_offset (V)', 'excitation_energy (eV)']))
     const datasetsInBag = [...files.keys()].filter(k => k.startsWith('data/datasets/')).length
     expect(datasetsInBag).toBe(new Set(json.map(j => `${j.datasetId}-${j.datasetVersion}`)).size)
     const readme = files.get('data/README.md')!.toString()

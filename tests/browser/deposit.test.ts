@@ -51,6 +51,19 @@ describe('a contributor deposits a dataset', () => {
     await page.waitForFunction(() => document.querySelector('[data-test=form-status]')?.textContent?.includes('Record added'))
     expect(await page.evaluate(() => document.activeElement?.id)).toBe('f-donor_name')
 
+    // editing goes through the same form, prefilled, and says which row it saved
+    await page.getByRole('button', { name: 'Edit record 4', exact: true }).click()
+    await page.waitForFunction(() => document.querySelector('#record-form h2')?.textContent?.includes('Edit record 4'))
+    expect(await page.inputValue('#f-donor_name')).toBe('ZnP')
+    expect(await page.inputValue('#f-solvent')).toBe('toluene')
+    await page.fill('#f-temperature', '300')
+    await page.click('[data-test=add-record]')
+    await page.waitForFunction(() => document.body.textContent!.includes('Record 4 saved.'))
+    const edited = await api(s.url, `/api/v1/datasets/${id}/versions/1`, { headers: { cookie: await signIn(s.url, DEMO.contributorA) } })
+    const rec4 = edited.data.records.find((r: { position: number }) => r.position === 4)
+    expect(rec4.data.temperatureK).toBe(300)
+    expect(rec4.data.rate.value / 1.8e9).toBeCloseTo(1, 6) // still 1/0.5 ns − 1/5 ns
+
     // submitting asks first, naming what is sent
     let asked = ''
     page.once('dialog', (d) => {
