@@ -5,7 +5,8 @@
 import { writeFileSync, rmSync } from 'node:fs'
 import { secretProblem } from '../utils/accounts/demo-secret'
 import { resolveFileUrl, serverMarkPath } from '../utils/storage/backup'
-import { useDb } from '../utils/storage/db'
+import { onDatabaseOpen, useDb } from '../utils/storage/db'
+import { applyDataMigrations } from '../utils/review/derivations'
 
 /** Marks the database file as used by this server, so that a restore refuses to replace it under us. */
 function markDatabaseInUse (): void {
@@ -31,6 +32,7 @@ export default defineNitroPlugin(async () => {
     process.exit(1)
   }
   try {
+    onDatabaseOpen(applyDataMigrations)
     await useDb()
     markDatabaseInUse()
   }

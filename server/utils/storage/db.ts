@@ -105,14 +105,22 @@ function databaseConfig (): { url: string, authToken: string } {
   }
 }
 
+type OpenHook = (db: Db) => Promise<unknown>
+const openHooks: OpenHook[] = []
+/**
+ * Work to run once on the database when it is first opened, before anyone uses it: the start-up plugin registers
+ * the data migrations here (they need domain helpers that import this module, so this module does not import them).
+ */
+export function onDatabaseOpen (hook: OpenHook): void {
+  openHooks.push(hook)
+}
+
 /** The database, migrated. */
 export async function useDb (): Promise<Db> {
   if (!ready) {
     const { url, authToken } = databaseConfig()
     ready = openDatabase(url, authToken).then(async (opened) => {
-      // data migrations need the domain helpers, which import this module: loaded here, not at the top
-      const { applyDataMigrations } = await import('../review/derivations')
-      await applyDataMigrations(opened.db)
+      for (const hook of openHooks) await hook(opened.db)
       return opened
     })
     ready.catch(() => {
