@@ -9,6 +9,8 @@ export interface Col<R> {
   hidden?: boolean
   title?: string
   link?: (r: R) => string | undefined
+  /** Long text (titles): the cell wraps instead of widening the table. */
+  wrap?: boolean
 }
 
 /** What a cell shows: the column's formatter, else its value, with an em dash for nothing. */
