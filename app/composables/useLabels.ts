@@ -31,7 +31,9 @@ export function fmtRate (v: number | null | undefined): string {
 export function fmtDate (d: string | Date | null | undefined): string {
   return d ? new Date(d).toISOString().slice(0, 10) : '—'
 }
-/** "1 record", "2 records", "1 372 records": a count with its noun in the right number. */
-export function plural (n: number, one: string, many = `${one}s`): string {
-  return countOf(n, one, many)
+/** Date and time in UTC to the second ("2026-12-03 14:05:09"), for logs people read. */
+export function fmtDateTime (d: string | Date | null | undefined): string {
+  return d ? new Date(d).toISOString().replace('T', ' ').slice(0, 19) : '—'
 }
+/** "1 record", "2 records", "1 372 records": a count with its noun in the right number. */
+export const plural = countOf

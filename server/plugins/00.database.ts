@@ -3,6 +3,7 @@
  * stops with a clear message.
  */
 import { writeFileSync, rmSync } from 'node:fs'
+import { consola } from 'consola'
 import { secretProblem } from '../utils/accounts/demo-secret'
 import { resolveFileUrl, serverMarkPath } from '../utils/storage/backup'
 import { onDatabaseOpen, useDb } from '../utils/storage/db'
@@ -13,7 +14,7 @@ function markDatabaseInUse (): void {
   const url = useRuntimeConfig().databaseUrl
   if (!url.startsWith('file:')) return
   const mark = serverMarkPath(resolveFileUrl(url))
-  writeFileSync(mark, `${process.pid}\n`)
+  writeFileSync(mark, `${process.pid}`)
   const clear = () => {
     try {
       rmSync(mark, { force: true })
@@ -28,7 +29,7 @@ function markDatabaseInUse (): void {
 export default defineNitroPlugin(async () => {
   const problem = secretProblem(useRuntimeConfig().authSecret, process.env, import.meta.dev)
   if (problem) {
-    console.error(`\n[crosspoint] start-up refused: ${problem}\n`)
+    consola.error(`[crosspoint] start-up refused: ${problem}`)
     process.exit(1)
   }
   try {
@@ -37,7 +38,7 @@ export default defineNitroPlugin(async () => {
     markDatabaseInUse()
   }
   catch (e) {
-    console.error(`\n[crosspoint] start-up failed: ${(e as Error).message}\n`)
+    consola.error(`[crosspoint] start-up failed: ${(e as Error).message}`)
     process.exit(1)
   }
 })

@@ -3,12 +3,14 @@
  * process stopped in between) are made findable: shortly after start, then every five minutes.
  */
 import { reconcileIdentifiers } from '../utils/review'
+import { consola } from 'consola'
+import { countOf } from '../../shared/vocabulary'
 
 export default defineNitroPlugin(() => {
   const run = () => {
     reconcileIdentifiers()
       .then((r) => {
-        if (r.madeFindable) console.log(`[crosspoint] identifiers: ${r.madeFindable} version(s) made findable`)
+        if (r.madeFindable) consola.info(`[crosspoint] identifiers: ${countOf(r.madeFindable, 'version')} made findable`)
       })
       .catch(() => {})
   }

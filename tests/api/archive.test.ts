@@ -34,6 +34,12 @@ describe('service routes', () => {
       expect(Object.keys(r.data.paths), path).toContain(path)
       expect(r.data.paths[path][m[2]!], `${m[2]} ${path}`).toBeDefined()
     }
+    // the dataset routes document the record query parameters the server validates, with their allowed values
+    for (const path of ['/api/v1/datasets/{id}', '/api/v1/datasets/{id}/versions/{n}']) {
+      const params = r.data.paths[path].get.parameters as { name: string, in: string, schema: { enum?: string[] } }[]
+      expect(params.map(p => p.name)).toEqual(expect.arrayContaining(['id', 'records', 'sort', 'page', 'pageSize']))
+      expect(params.find(p => p.name === 'sort')!.schema.enum).toContain('-log10Rate')
+    }
   })
   it('serves the schemas with $id equal to their public URL', async () => {
     for (const name of ['rate-record.v1.json', 'dataset.v1.json']) {

@@ -1,4 +1,5 @@
 import { curveBodySchema, fitBodySchema } from '../../utils/model/route-schemas'
+import { RECORD_QUERY_PARAMETERS } from '../../utils/publishing/dataset-view'
 
 defineRouteMeta({ openAPI: { tags: ['service'], summary: 'This OpenAPI 3 document (the /api/v1 routes)' } })
 
@@ -12,7 +13,7 @@ export default defineEventHandler(async (event) => {
   }>('/_openapi.json')
   const paths = Object.fromEntries(Object.entries(full.paths).filter(([p]) => p.startsWith('/api/v1/'))) as Record<
     string,
-    Record<string, { requestBody?: unknown }>
+    Record<string, { requestBody?: unknown, parameters?: unknown[] }>
   >
   // Request schemas that live in code (built from the physics bounds) replace the placeholders of the
   // build-time route meta, so the document states the same limits, with units, as the server enforces.
@@ -22,6 +23,10 @@ export default defineEventHandler(async (event) => {
   ] as const) {
     const op = paths[path]?.post
     if (op) op.requestBody = { required: true, content: { 'application/json': { schema } } }
+  }
+  for (const path of ['/api/v1/datasets/{id}', '/api/v1/datasets/{id}/versions/{n}']) {
+    const op = paths[path]?.get
+    if (op) op.parameters = [...(op.parameters ?? []), ...RECORD_QUERY_PARAMETERS]
   }
   return {
     openapi: full.openapi,

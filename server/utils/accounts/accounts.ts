@@ -1,5 +1,6 @@
 /** Sign-up, verification, links, resets and profile changes: the logic behind the account routes. */
 import { randomBytes } from 'node:crypto'
+import { consola } from 'consola'
 import { and, eq, isNull } from 'drizzle-orm'
 import { useDb, schema } from '../storage/db'
 import { hashPassword, normalizeEmail } from './auth'
@@ -31,7 +32,7 @@ export const NEUTRAL_ANSWER_MS = 400
 export async function neutralTiming (work: () => Promise<unknown>): Promise<void> {
   const floor = new Promise(resolve => setTimeout(resolve, NEUTRAL_ANSWER_MS))
   const done = work().catch((e) => {
-    console.error('[crosspoint] account mail:', (e as Error).message)
+    consola.error('[crosspoint] account mail:', (e as Error).message)
   })
   await Promise.all([floor, Promise.race([done, new Promise(resolve => setTimeout(resolve, NEUTRAL_ANSWER_MS))])])
 }

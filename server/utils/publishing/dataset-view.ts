@@ -21,6 +21,29 @@ const DETAIL_QUERY = {
     pageSize: { type: 'integer', minimum: 1, maximum: MAX_RECORD_PAGE }
   }
 }
+/**
+ * The same four parameters as OpenAPI query parameters (the route meta is read at build time and takes literals
+ * only, so the OpenAPI handler adds these to both dataset routes): one source for the document and the validator.
+ */
+export const RECORD_QUERY_PARAMETERS = [
+  {
+    in: 'query', name: 'records', schema: { type: 'string', ...DETAIL_QUERY.properties.records },
+    description: 'full (default): each record with its JSON; summary: the table columns only; '
+      + 'points: id, ΔG°, log10 k and medium only (for plots)'
+  },
+  {
+    in: 'query', name: 'sort', schema: { type: 'string', ...DETAIL_QUERY.properties.sort },
+    description: 'Order of the records: a column, with a leading - for descending; ties keep the deposit order'
+  },
+  {
+    in: 'query', name: 'page', schema: DETAIL_QUERY.properties.page,
+    description: 'Page of records (1-based); recordPage.total says how many there are'
+  },
+  {
+    in: 'query', name: 'pageSize', schema: DETAIL_QUERY.properties.pageSize,
+    description: `Records per page, at most ${MAX_RECORD_PAGE} (the default)`
+  }
+]
 export interface RecordQuery {
   detail?: RecordDetail | 'points'
   sort?: string

@@ -1,5 +1,6 @@
 /** Return with comments, and accept → identifiers (drafts, then findable after the commit) → publish. */
 import { and, eq, inArray, isNull, sql } from 'drizzle-orm'
+import { consola } from 'consola'
 import { audit } from '../storage/audit'
 import { useDb, schema } from '../storage/db'
 import { httpError } from '../http/errors'
@@ -163,7 +164,7 @@ async function makeVersionFindable (versionId: number, ids: { concept: string, v
   }
   catch (e) {
     if (!(e instanceof RegistrarError)) throw e
-    console.error(
+    consola.error(
       `[crosspoint] identifiers of version ${versionId} stay reserved until the registrar answers: ${e.message}`
     )
     return false

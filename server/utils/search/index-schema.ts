@@ -1,4 +1,5 @@
-/** What the record index is fed and answers, and the columns it keeps (see search-index.ts). */
+/** What the record index is fed and answers, and the columns it keeps (see record-index.ts). */
+import MiniSearch from 'minisearch'
 
 /** What the index is fed for one record (rows → documents happens in search.ts). */
 export interface SearchDoc {
@@ -111,7 +112,8 @@ export function grow<T extends Float64Array | Int32Array | Uint8Array> (a: T, si
  */
 const NAME_PREFIXES = ['di', 'tri', 'tetra', 'bis', 'tris', 'methyl', 'ethyl', 'propyl', 'butyl', 'tert', 'phenyl',
   'benzyl', 'methoxy', 'ethoxy', 'amino', 'nitro', 'cyano', 'chloro', 'bromo', 'fluoro', 'iodo', 'hydroxy', 'oxo', 'aza']
-const DEFAULT_TOKENIZE = (text: string) => text.split(/[\n\r\p{Z}\p{P}]+/u).filter(Boolean)
+// minisearch's own tokenizer (split on spaces and punctuation), extended below, not written again
+const DEFAULT_TOKENIZE = MiniSearch.getDefault('tokenize') as (text: string) => string[]
 export function indexTokenize (text: string): string[] {
   const out: string[] = []
   for (const token of DEFAULT_TOKENIZE(text)) {

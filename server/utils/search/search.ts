@@ -1,5 +1,5 @@
 /**
- * Record search: one RecordIndex per instance (search-index.ts), built from the database at start
+ * Record search: one RecordIndex per instance (record-index.ts), built from the database at start
  * and kept up to date per dataset (after every local write, and by polling dataset_version.updated_at
  * so that changes made by other instances arrive too). Visibility is decided per query: published
  * records for everyone, a lab's own drafts for its members.

@@ -5,34 +5,9 @@ import { intParam } from '../../../utils/http/params'
 defineRouteMeta({
   openAPI: {
     tags: ['archive'],
+    // the record query parameters are added by the OpenAPI handler (RECORD_QUERY_PARAMETERS)
     parameters: [
-      { in: 'path', name: 'id', required: true, schema: { type: 'integer', minimum: 1 } },
-      {
-        in: 'query',
-        name: 'records',
-        description: 'full (default): each record with its JSON; summary: the table columns only; '
-          + 'points: id, ΔG°, log10 k and medium only (for plots)',
-        schema: { type: 'string', enum: ['full', 'summary', 'points'] }
-      },
-      {
-        in: 'query',
-        name: 'sort',
-        description: 'Order of the records: a column (position, donorName, acceptorName, bridgeName, process, solvent, '
-          + 'deltaG, log10Rate, temperatureK, distanceAngstrom), with a leading - for descending; ties keep the deposit order',
-        schema: { type: 'string' }
-      },
-      {
-        in: 'query',
-        name: 'page',
-        description: 'Page of records (1-based); recordPage.total says how many there are',
-        schema: { type: 'integer', minimum: 1 }
-      },
-      {
-        in: 'query',
-        name: 'pageSize',
-        description: 'Records per page, at most 10 000 (the default)',
-        schema: { type: 'integer', minimum: 1, maximum: 10000 }
-      }
+      { in: 'path', name: 'id', required: true, schema: { type: 'integer', minimum: 1 } }
     ],
     summary: 'A dataset: its newest published version (or newest the caller may see), version list and records'
   }
