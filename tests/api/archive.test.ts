@@ -116,6 +116,21 @@ describe('records and datasets for a visitor', () => {
     expect(bad.status).toBe(422)
     expect(bad.data.data.issues[0].path).toBe('/records')
   })
+  it('pages and sorts a version\'s records on the server; records=points gives every point; a bad sort is refused by name', async () => {
+    const [p] = await datasetIdByState('published')
+    const all = (await api(s.url, `/api/v1/datasets/${p!.id}?records=summary`)).data.records as { id: number, log10Rate: number }[]
+    const page2 = await api(s.url, `/api/v1/datasets/${p!.id}?records=summary&sort=-log10Rate&page=2&pageSize=3`)
+    expect(page2.data.recordPage).toMatchObject({ page: 2, pageSize: 3, total: all.length })
+    const sorted = [...all].sort((a, b) => b.log10Rate - a.log10Rate).slice(3, 6).map(r => r.log10Rate)
+    expect(page2.data.records.map((r: { log10Rate: number }) => r.log10Rate)).toEqual(sorted)
+    const points = await api(s.url, `/api/v1/datasets/${p!.id}?records=points`)
+    expect(points.data.records).toEqual([])
+    expect(points.data.points.map((r: { id: number }) => r.id)).toEqual(all.map(r => r.id))
+    expect(Object.keys(points.data.points[0]).sort()).toEqual(['deltaG', 'id', 'log10Rate', 'solvent'])
+    const bad = await api(s.url, `/api/v1/datasets/${p!.id}?sort=password`)
+    expect(bad.status).toBe(422)
+    expect(bad.data.data.issues[0].path).toBe('/sort')
+  })
   it('a record of a draft is 404 for a visitor', async () => {
     const cookie = await signIn(s.url, 'imre.faulkwood@brightwater.example')
     const [draft] = await datasetIdByState('draft', cookie)
