@@ -4,7 +4,9 @@
  * reproduces it; the researcher's own points stay in this browser (localStorage), never uploaded.
  */
 import { defineStore } from 'pinia'
-import { MODEL_BOUNDS, MAX_HUANG_RHYS, type SemiclassicalParams } from '#shared/physics'
+import {
+  MODEL_BOUNDS, MAX_HUANG_RHYS, isEnergyUnit, type EnergyUnit, type SemiclassicalParams
+} from '#shared/physics'
 
 type ModelParams = SemiclassicalParams
 
@@ -31,6 +33,8 @@ export const useCompareStore = defineStore('compare', () => {
   const showClassical = ref(true)
   const showTerms = ref(false)
   const view = ref<'plot' | 'map'>('plot')
+  /** The unit energies are shown and typed in (the model always works in eV). */
+  const energyUnit = ref<EnergyUnit>('eV')
 
   function add (ids: number[]) {
     recordIds.value = [...new Set([...recordIds.value, ...ids])].slice(0, 5000)
@@ -54,7 +58,8 @@ export const useCompareStore = defineStore('compare', () => {
     t: params.value.temperatureK,
     cl: showClassical.value ? undefined : '0',
     terms: showTerms.value ? '1' : undefined,
-    view: view.value === 'map' ? 'map' : undefined
+    view: view.value === 'map' ? 'map' : undefined,
+    unit: energyUnit.value === 'eV' ? undefined : energyUnit.value
   }))
   function fromQuery (q: Record<string, unknown>) {
     const num = (k: string, d: number) => {
@@ -66,6 +71,7 @@ export const useCompareStore = defineStore('compare', () => {
     showClassical.value = q.cl !== '0'
     showTerms.value = q.terms === '1'
     view.value = q.view === 'map' ? 'map' : 'plot'
+    energyUnit.value = typeof q.unit === 'string' && isEnergyUnit(q.unit) ? q.unit : 'eV'
     const next = {
       lambdaSolvent: num('ls', DEFAULT_PARAMS.lambdaSolvent),
       lambdaInternal: num('li', DEFAULT_PARAMS.lambdaInternal),
@@ -110,6 +116,7 @@ export const useCompareStore = defineStore('compare', () => {
     showClassical,
     showTerms,
     view,
+    energyUnit,
     add,
     remove,
     clear,

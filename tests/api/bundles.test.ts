@@ -19,7 +19,13 @@ const sha = (b: Buffer) => createHash('sha256').update(b).digest('hex')
 /** Checks a bag the way a BagIt validator does (RFC 8493 §3): both manifests and the Payload-Oxum. */
 function verifyBag (buf: Buffer) {
   const zip = new AdmZip(buf)
-  const files = new Map(zip.getEntries().filter(e => !e.isDirectory).map(e => [e.entryName, e.getData()]))
+  const entries = zip.getEntries().filter(e => !e.isDirectory)
+  // one top-level folder (the bag's base directory, RFC 8493 §2), so unpacking never spills files
+  const roots = new Set(entries.map(e => e.entryName.split('/')[0]))
+  expect(roots.size).toBe(1)
+  const root = [...roots][0]!
+  expect(root).toMatch(/^crosspoint-[a-z0-9-]+$/)
+  const files = new Map(entries.map(e => [e.entryName.slice(root.length + 1), e.getData()]))
   expect(files.get('bagit.txt')!.toString()).toBe('BagIt-Version: 1.0\nTag-File-Character-Encoding: UTF-8\n')
   const manifest = files.get('manifest-sha256.txt')!.toString().trim().split('\n').map(l => l.split(/\s+/))
   const payload = [...files.keys()].filter(k => k.startsWith('data/'))

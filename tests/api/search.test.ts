@@ -39,6 +39,19 @@ describe('full-text search', () => {
     const ks = r.items.map((i: any) => i.log10Rate)
     expect([...ks].sort((a, b) => b - a)).toEqual(ks)
   })
+  it('/records/ids answers every match\'s id in the order of the pages (to add them all to a comparison)', async () => {
+    const all = (await api(s.url, '/api/v1/records/ids?q=porphyrin&sort=deltaG')).data
+    const pages = [await search('q=porphyrin&sort=deltaG&pageSize=500'), await search('q=porphyrin&sort=deltaG&pageSize=500&page=2')]
+    const paged = pages.flatMap(p => p.items.map((i: any) => i.id))
+    expect(all.total).toBe(pages[0].total)
+    expect(all.ids).toEqual(paged.slice(0, all.total))
+    expect(all.truncated).toBe(false)
+    expect((await api(s.url, '/api/v1/records/ids?sort=everything')).status).toBe(422)
+  })
+  it('says "did you mean" with the nearest indexed word, and not for a word it knows', async () => {
+    expect((await search('q=benzonitirle')).didYouMean).toBe('benzonitrile')
+    expect((await search('q=benzonitrile')).didYouMean).toBeUndefined()
+  })
 })
 
 describe('drafts never leak; publishing makes records findable at once', () => {

@@ -1,5 +1,6 @@
 import { curveBodySchema, fitBodySchema } from '../../utils/model/route-schemas'
 import { RECORD_QUERY_PARAMETERS } from '../../utils/publishing/dataset-view'
+import { recordQuerySchema } from '../../utils/search/record-query'
 
 defineRouteMeta({ openAPI: { tags: ['service'], summary: 'This OpenAPI 3 document (the /api/v1 routes)' } })
 
@@ -27,6 +28,17 @@ export default defineEventHandler(async (event) => {
   for (const path of ['/api/v1/datasets/{id}', '/api/v1/datasets/{id}/versions/{n}']) {
     const op = paths[path]?.get
     if (op) op.parameters = [...(op.parameters ?? []), ...RECORD_QUERY_PARAMETERS]
+  }
+  // the record search's parameters, from the schema its routes validate with
+  const searchParams = Object.entries(recordQuerySchema.properties).map(([name, schema]) => ({
+    in: 'query',
+    name,
+    schema,
+    ...('description' in schema ? { description: schema.description } : {})
+  }))
+  for (const path of ['/api/v1/records', '/api/v1/records/ids']) {
+    const op = paths[path]?.get
+    if (op) op.parameters = searchParams.filter(p => path === '/api/v1/records' || !['page', 'pageSize'].includes(p.name))
   }
   return {
     openapi: full.openapi,

@@ -31,7 +31,7 @@ interface Entry {
 
 /** Appends one file from chunks, hashing as it goes, and resolves once archiver has consumed it. */
 function appendHashed (
-  zip: ZipArchive,
+  { zip, root }: { zip: ZipArchive, root?: string },
   path: string,
   chunks: AsyncIterable<string | Buffer> | Iterable<string | Buffer>
 ): Promise<Entry> {
@@ -50,7 +50,7 @@ function appendHashed (
   return new Promise((resolve, reject) => {
     stream.once('end', () => resolve({ path, sha256: hash.digest('hex'), bytes }))
     stream.once('error', reject)
-    zip.append(stream, { name: path })
+    zip.append(stream, { name: root ? `${root}/${path}` : path })
   })
 }
 
@@ -58,9 +58,12 @@ function appendHashed (
 export async function writeBundle (
   sel: Selection,
   out: NodeJS.WritableStream,
-  signal: AbortSignal
+  signal: AbortSignal,
+  /** the folder the bag is unpacked into (the download's name without .zip); BagIt paths stay relative to it */
+  root?: string
 ): Promise<{ records: number, datasets: number }> {
   const zip = new ZipArchive({ zlib: { level: 1 } })
+  const bag = { zip, root }
   zip.on('warning', () => {})
   const done = new Promise<void>((resolve, reject) => {
     zip.on('error', reject)
@@ -87,7 +90,7 @@ export async function writeBundle (
         yield p.bytes
       }
     }
-    payload.push(await appendHashed(zip, 'data/records.csv', csv()))
+    payload.push(await appendHashed(bag, 'data/records.csv', csv()))
     const json = async function* () {
       yield `{"schema":${JSON.stringify(publicUrl('/schemas/rate-record.v1.json'))},"records":[`
       let first = true
@@ -98,7 +101,7 @@ export async function writeBundle (
       }
       yield ']}'
     }
-    payload.push(await appendHashed(zip, 'data/records.json', json()))
+    payload.push(await appendHashed(bag, 'data/records.json', json()))
     return tx.all<{ datasetId: number, versionNumber: number }>(
       sql`select distinct dataset_version.dataset_id as datasetId, dataset_version.version_number as versionNumber
         from ${FROM} where ${sel.where}`
@@ -126,22 +129,22 @@ export async function writeBundle (
     .map(r => toCitable(r.v, r.conceptDoi, r.labName))
   for (const c of cited)
     payload.push(
-      await appendHashed(zip, `data/datasets/${c.datasetId}-v${c.versionNumber}.datacite.json`, [
+      await appendHashed(bag, `data/datasets/${c.datasetId}-v${c.versionNumber}.datacite.json`, [
         JSON.stringify(dataciteJson(c), null, 2)
       ])
     )
   payload.push(
-    await appendHashed(zip, 'data/schemas/rate-record.v1.json', [
+    await appendHashed(bag, 'data/schemas/rate-record.v1.json', [
       JSON.stringify({ ...rateRecordSchema, $id: publicUrl('/schemas/rate-record.v1.json') }, null, 2)
     ])
   )
   payload.push(
-    await appendHashed(zip, 'data/schemas/dataset.v1.json', [
+    await appendHashed(bag, 'data/schemas/dataset.v1.json', [
       JSON.stringify({ ...datasetSchema, $id: publicUrl('/schemas/dataset.v1.json') }, null, 2)
     ])
   )
-  payload.push(await appendHashed(zip, 'data/CITATION.cff', [bundleCff(cited, sel)]))
-  payload.push(await appendHashed(zip, 'data/README.md', [readme(cited, sel, count, header)]))
+  payload.push(await appendHashed(bag, 'data/CITATION.cff', [bundleCff(cited, sel)]))
+  payload.push(await appendHashed(bag, 'data/README.md', [readme(cited, sel, count, header)]))
 
   // tag files: manifest of the payload, bag-info with Payload-Oxum, then the tag manifest
   const manifest = payload.map(e => `${e.sha256}  ${e.path}`).join('\n') + '\n'
@@ -159,10 +162,10 @@ export async function writeBundle (
       .map(oneLine)
       .join('\n') + '\n' // one line per tag, whatever the stored values hold
   const tags: Entry[] = []
-  tags.push(await appendHashed(zip, 'bagit.txt', ['BagIt-Version: 1.0\nTag-File-Character-Encoding: UTF-8\n']))
-  tags.push(await appendHashed(zip, 'bag-info.txt', [bagInfo]))
-  tags.push(await appendHashed(zip, 'manifest-sha256.txt', [manifest]))
-  await appendHashed(zip, 'tagmanifest-sha256.txt', [tags.map(e => `${e.sha256}  ${e.path}`).join('\n') + '\n'])
+  tags.push(await appendHashed(bag, 'bagit.txt', ['BagIt-Version: 1.0\nTag-File-Character-Encoding: UTF-8\n']))
+  tags.push(await appendHashed(bag, 'bag-info.txt', [bagInfo]))
+  tags.push(await appendHashed(bag, 'manifest-sha256.txt', [manifest]))
+  await appendHashed(bag, 'tagmanifest-sha256.txt', [tags.map(e => `${e.sha256}  ${e.path}`).join('\n') + '\n'])
   await zip.finalize()
   await done
   return { records: count, datasets: cited.length }

@@ -55,7 +55,7 @@ export async function sendBundle (event: H3Event, sel: Selection, filename: stri
     'x-crosspoint-records': String(n)
   })
   // the instance-wide slot is freed when the work has really stopped (its snapshot closed), not at disconnect
-  writeBundle(sel, out, controller.signal)
+  writeBundle(sel, out, controller.signal, filename.replace(/\.zip$/, ''))
     .catch((e) => {
       out.destroy(e as Error)
     })

@@ -111,11 +111,38 @@ export class QueryableIndex extends IndexStore {
     len = this.narrow(sel, len, query, labs)
     const hits = sel.subarray(0, len)
     const page = this.order(hits, query, scored)
+    const suggestion = scored ? this.suggest(query.q!, labs) : undefined
     return {
       total: len,
+      ...(suggestion ? { suggestion } : {}),
       ids: page.map(s => ({ id: this.idCol[s]!, score: scored ? this.score[s]! : 0 })),
       ...this.summarise(hits)
     }
+  }
+
+  /**
+   * "Did you mean": each query word that is neither in the index (whole or as a prefix) nor a synonym is replaced by the
+   * indexed word minisearch ranks first within 1 edit (4 letters) or 2 edits (5 or more); undefined when nothing changes.
+   * minisearch's own fuzzy search does the edit-distance work.
+   */
+  suggest (q: string, labs: Set<number>): string | undefined {
+    const tokenize = MiniSearch.getDefault('tokenize') as (t: string) => string[]
+    const process = MiniSearch.getDefault('processTerm') as (t: string) => string | null | undefined
+    // a word is only ever suggested from a value some record the viewer may see carries (never from another lab's draft)
+    const vis = this.visCol
+    const lab = this.labCol
+    const seen = (value: number) =>
+      this.postings[value]!.some(s => vis[s] === 1 || (vis[s] === 2 && labs.has(lab[s]!)))
+    let out = q
+    for (const t of tokenize(q).slice(0, MAX_QUERY_TERMS)) {
+      const p = process(t)
+      if (!p || p.length < 4 || /\d/.test(p) || expandSynonyms(p) !== p) continue
+      if (this.text.search(p, { prefix: true, fuzzy: false }).length) continue
+      const near = this.text.search(p, { prefix: false, fuzzy: p.length >= 5 ? 2 : 1 }).slice(0, 50)
+      const term = near.find(r => seen(r.id as number))?.terms.find(x => x !== p)
+      if (term) out = out.replace(t, term)
+    }
+    return out === q ? undefined : out
   }
 
   /** Slots of the records whose values match every query term, scored (score left in this.score). */

@@ -88,6 +88,8 @@ export interface SearchQuery {
 export interface SearchAnswer {
   total: number
   ids: { id: number, score: number }[]
+  /** The query with unknown words replaced by the nearest indexed ones ("did you mean"). */
+  suggestion?: string
   facets: Record<'process' | 'solvent' | 'technique' | 'linkage' | 'lab' | 'year', Record<string, number>>
   ranges: Record<'deltaG' | 'temperature' | 'distance' | 'log10Rate', { min: number, max: number } | null>
 }

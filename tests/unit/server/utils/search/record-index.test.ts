@@ -49,6 +49,20 @@ describe('RecordIndex search', () => {
     expect(q('zinc porphyrin')).toEqual([1])
     expect(q('ZnP')).toEqual([1])
   })
+  it('offers "did you mean" for unknown words, never from a draft the viewer may not see', () => {
+    const ix = fixture()
+    const hint = (text: string, labIds: number[] = []) =>
+      ix.search({ q: text, page: 1, pageSize: 10 }, labIds.length ? { labIds } : null).suggestion
+    expect(hint('toleune')).toBe('toluene')
+    expect(hint('Porphyrin benzonitrle')).toBe('Porphyrin benzonitrile') // only the unknown word is replaced
+    expect(hint('toluene')).toBeUndefined() // a known word
+    expect(hint('tolu')).toBeUndefined() // a prefix of a known word, typed half-way
+    expect(hint('ZnP')).toBeUndefined() // short words and synonyms are left alone
+    // "secret" is only in lab 2's draft: a visitor and lab 1 get no hint, lab 2's member does
+    expect(hint('secrat')).toBeUndefined()
+    expect(hint('secrat', [1])).toBeUndefined()
+    expect(hint('secrat', [2])).toBe('secret')
+  })
   it('filters by facet values and ranges; a record without a value is outside any range', () => {
     const ix = fixture()
     expect(ids(ix.search({ deltaGMin: -1, deltaGMax: -0.5, page: 1, pageSize: 10 }, null))).toEqual([1])
