@@ -31,6 +31,33 @@ describe('compare', () => {
     expect(dois.length).toBeGreaterThan(0)
     for (const d of dois) expect(svg).toContain(d)
     expect(svg).toContain('<svg')
+    // the exported figure is the plot itself (not a legend swatch), with legend and caption inside its viewBox
+    const [, w, h] = svg.match(/^<svg[^>]*viewBox="0 0 ([\d.]+) ([\d.]+)"/)!.map(Number)
+    expect(w).toBeGreaterThan(300)
+    expect(svg).toMatch(new RegExp(`^<svg[^>]*width="${w}"[^>]*height="${h}"`))
+    const shownDots = await page.locator('[data-test=rate-plot]').first().locator('g[data-mark=dot] circle').count()
+    expect((svg.match(/<circle/g) ?? []).length).toBeGreaterThanOrEqual(shownDots)
+    const view = await browser.newPage()
+    await view.setContent(svg)
+    const parts = await view.evaluate(() => {
+      const box = (sel: string) => [...document.querySelectorAll(sel)].map((t) => {
+        const b = (t as SVGGraphicsElement).getBBox()
+        return { text: t.textContent ?? '', bottom: b.y + b.height, right: b.x + b.width }
+      })
+      return { legend: box('[data-part=legend] text'), caption: box('[data-part=caption] text') }
+    })
+    await view.close()
+    expect(parts.legend.map(l => l.text)).toContain('semi-classical')
+    for (const t of [...parts.legend, ...parts.caption]) {
+      expect(t.bottom, t.text).toBeLessThanOrEqual(h)
+      expect(t.right, t.text).toBeLessThanOrEqual(w)
+    }
+    const captionText = parts.caption.map(c => c.text).join(' ')
+    for (const d of dois) expect(captionText).toContain(d)
+    const [pngDownload] = await Promise.all([page.waitForEvent('download'), page.click('[data-test=export-png]')])
+    const png = readFileSync((await pngDownload.path())!)
+    expect(png.subarray(1, 4).toString()).toBe('PNG') // PNG signature and IHDR (ISO/IEC 15948 §5.2, §11.2.2)
+    expect([png.readUInt32BE(16), png.readUInt32BE(20)]).toEqual([2 * Math.ceil(w), 2 * Math.ceil(h)])
     await shot(page, 'compare')
 
     const link = page.url()
