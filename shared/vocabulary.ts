@@ -67,3 +67,22 @@ export function unitLabel (code: string | undefined): string {
 export function countOf (n: number, one: string, many = `${one}s`): string {
   return `${n.toLocaleString('en')} ${n === 1 ? one : many}`
 }
+
+/** Plain-language labels for the format's enumerations. */
+export const PROCESS_LABELS: Record<string, string> = {
+  'charge-separation': 'charge separation',
+  'charge-recombination': 'charge recombination',
+  'charge-shift': 'charge shift',
+  'hole-transfer': 'hole transfer',
+  'other': 'other'
+}
+export const TECHNIQUE_LABELS: Record<string, string> = {
+  'transient-absorption': 'transient absorption',
+  'tcspc': 'time-correlated photon counting',
+  'upconversion': 'fluorescence upconversion',
+  'streak-camera': 'streak camera',
+  'pulse-radiolysis': 'pulse radiolysis',
+  'microwave-conductivity': 'microwave conductivity',
+  'steady-state-quenching': 'steady-state quenching',
+  'other': 'other'
+}

@@ -1,23 +1,7 @@
-import { countOf } from '#shared/vocabulary'
+import { countOf, PROCESS_LABELS, TECHNIQUE_LABELS } from '#shared/vocabulary'
 
-/** Plain-language labels for the format's enumerations. */
-export const PROCESS_LABELS: Record<string, string> = {
-  'charge-separation': 'charge separation',
-  'charge-recombination': 'charge recombination',
-  'charge-shift': 'charge shift',
-  'hole-transfer': 'hole transfer',
-  'other': 'other'
-}
-export const TECHNIQUE_LABELS: Record<string, string> = {
-  'transient-absorption': 'transient absorption',
-  'tcspc': 'time-correlated photon counting',
-  'upconversion': 'fluorescence upconversion',
-  'streak-camera': 'streak camera',
-  'pulse-radiolysis': 'pulse radiolysis',
-  'microwave-conductivity': 'microwave conductivity',
-  'steady-state-quenching': 'steady-state quenching',
-  'other': 'other'
-}
+export { PROCESS_LABELS, TECHNIQUE_LABELS }
+
 export function label (value: string | null | undefined): string {
   if (!value) return '—'
   return PROCESS_LABELS[value] ?? TECHNIQUE_LABELS[value] ?? value

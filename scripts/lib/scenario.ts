@@ -277,10 +277,19 @@ export function demoMetadata (ds: DemoDataset, creators: { name: string, orcid?:
   return {
     title: ds.title,
     description: ds.description,
-    creators: creators.map(c => ({ name: c.name, ...(c.orcid ? { orcid: c.orcid } : {}), ...(c.affiliation ? { affiliation: c.affiliation } : {}) })),
+    // the invented people each have one given and one family name ("Imre Faulkwood")
+    creators: creators.map((c) => {
+      const [givenName, familyName] = c.name.split(' ') as [string, string]
+      return {
+        name: `${familyName}, ${givenName}`, nameType: 'Personal' as const, familyName, givenName,
+        ...(c.orcid ? { orcid: c.orcid } : {}), ...(c.affiliation ? { affiliation: c.affiliation } : {})
+      }
+    }),
     keywords: [...ds.keywords, 'demo data'],
     license: ds.license,
-    funding: [{ funderName: 'Meridian Charge-Transfer Consortium (fictional)', awardNumber: `MCT-${ds.key.toUpperCase()}` }]
+    funding: [{ funderName: 'Meridian Charge-Transfer Consortium (fictional)', awardNumber: `MCT-${ds.key.toUpperCase()}` }],
+    // an invented article DOI under the test prefix 10.99999 (not registered anywhere)
+    relatedIdentifiers: [{ identifier: `10.99999/demo-article.${ds.key}`, identifierType: 'DOI', relationType: 'IsSupplementTo' }]
   }
 }
 

@@ -86,7 +86,11 @@ export interface RateRecordV1 {
 }
 
 export interface Creator {
+  /** "Family, Given" for a person, the name of an organisation */
   name: string
+  nameType?: 'Personal' | 'Organizational'
+  givenName?: string
+  familyName?: string
   orcid?: string
   affiliation?: string
   rorId?: string

@@ -14,6 +14,7 @@ import type { Viewer } from '../accounts/auth'
 import type { DatasetMetadataV1 } from '../../../shared/records/types'
 import { afterDatasetChange } from '../search/search'
 import { countOf } from '../../../shared/vocabulary'
+import { creatorName } from '../../../shared/records/creators'
 
 /** The dataset schema's own properties, so that the API and the schema can never disagree. */
 export const datasetMetaSchema = {
@@ -32,6 +33,7 @@ export async function createDraft (viewer: Viewer, labId: number, title: string,
     description,
     creators: [
       {
+        // the account holds one name; the draft's metadata form asks for family and given names
         name: u?.name ?? viewer.email,
         ...(u?.orcid ? { orcid: u.orcid } : {}),
         ...(u?.affiliation ? { affiliation: u.affiliation } : {})
@@ -85,6 +87,14 @@ export function metadataIssues (m: DatasetMetaInput): Issue[] {
     oneLineField(f.awardNumber, `/funding/${i}/awardNumber`)
   })
   m.creators?.forEach((c, i) => {
+    if (c.nameType === 'Organizational') {
+      for (const k of ['familyName', 'givenName', 'orcid'] as const)
+        if (c[k]) issues.push({ path: `/creators/${i}/${k}`, message: 'belongs to a person; an organisation has one name' })
+    }
+    else if (c.givenName?.trim() && !c.familyName?.trim())
+      issues.push({ path: `/creators/${i}/familyName`, message: 'is needed with a given name (cited "Family, Given")' })
+    oneLineField(c.familyName, `/creators/${i}/familyName`)
+    oneLineField(c.givenName, `/creators/${i}/givenName`)
     if (c.orcid && !isValidOrcid(c.orcid))
       issues.push({
         path: `/creators/${i}/orcid`,
@@ -109,6 +119,8 @@ export async function updateMetadata (viewer: Viewer, version: Version, patch: D
   const issues = metadataIssues(patch)
   if (issues.length) throw httpError(422, 'The metadata has problems; nothing was changed', issues)
   const merged = { ...(version.metadata as DatasetMetaInput), ...patch }
+  // a person's cited name follows the parts given ("Family, Given")
+  if (merged.creators) merged.creators = merged.creators.map(c => (c.familyName ? { ...c, name: creatorName(c) } : c))
   for (const k of Object.keys(merged) as (keyof DatasetMetaInput)[]) if (merged[k] === null) delete merged[k]
   const db = await useDb()
   await db

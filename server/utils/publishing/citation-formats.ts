@@ -1,7 +1,33 @@
 /** BibTeX, RIS, CITATION.cff and schema.org JSON-LD of a published version, and one entry point by format. */
 import { oneLine } from '../../../shared/text'
 import { stringify as toYaml } from 'yaml'
-import { type CitableVersion, type CitationFormat, PUBLISHER, cslJson, dataciteJson, doiUrl, splitName, year } from './citation'
+import {
+  type CitableVersion, type CitationFormat, PUBLISHER, cslJson, dataciteJson, doiUrl, licenceUrl, supplementedArticles, year
+} from './citation'
+import { creatorParts } from '../../../shared/records/creators'
+import type { Creator } from '../../../shared/records/types'
+
+/** "Family, Given" for a person; a whole name braced so BibTeX takes it as one family name. */
+function bibName (c: Creator): string {
+  const p = creatorParts(c)
+  if (p.kind !== 'person') return `{${bib(p.name)}}`
+  return p.given ? `${bib(p.family)}, ${bib(p.given)}` : bib(p.family)
+}
+function risName (c: Creator): string {
+  const p = creatorParts(c)
+  return p.kind === 'person' ? (p.given ? `${p.family}, ${p.given}` : p.family) : p.name
+}
+/** A CFF author: a person with name parts, or an entity (organisation); a name without parts stays whole. */
+function cffAuthor (c: Creator): Record<string, string> {
+  const p = creatorParts(c)
+  const extra = {
+    ...(c.orcid && p.kind !== 'organization' ? { orcid: `https://orcid.org/${c.orcid}` } : {}),
+    ...(c.affiliation && p.kind !== 'organization' ? { affiliation: c.affiliation } : {})
+  }
+  if (p.kind === 'organization') return { name: p.name }
+  if (p.kind === 'literal') return { 'family-names': p.name, ...extra }
+  return { 'family-names': p.family, ...(p.given ? { 'given-names': p.given } : {}), ...extra }
+}
 
 function bib (s: string): string {
   return s
@@ -14,15 +40,7 @@ function bib (s: string): string {
 export function bibtex (v: CitableVersion): string {
   const key = `crosspoint_${v.datasetId}_v${v.versionNumber}`
   const fields: [string, string][] = [
-    [
-      'author',
-      v.metadata.creators
-        .map((c) => {
-          const n = splitName(c)
-          return n.given ? `${bib(n.family)}, ${bib(n.given)}` : bib(n.family)
-        })
-        .join(' and ')
-    ],
+    ['author', v.metadata.creators.map(bibName).join(' and ')],
     ['title', `{${bib(v.title)}}`],
     ['year', String(year(v))],
     ['publisher', PUBLISHER],
@@ -33,7 +51,7 @@ export function bibtex (v: CitableVersion): string {
           ['url', doiUrl(v.doi)]
         ] as [string, string][])
       : ([['url', v.landingUrl]] as [string, string][])),
-    ['note', `Licence: ${v.license}`]
+    ['note', [`Licence: ${v.license}`, ...supplementedArticles(v).map(d => `Supplement to ${bib(doiUrl(d))}`)].join('. ')]
   ]
   return `@misc{${key},\n${fields.map(([k, val]) => `  ${k} = {${val}}`).join(',\n')}\n}\n`
 }
@@ -41,17 +59,15 @@ export function bibtex (v: CitableVersion): string {
 export function ris (v: CitableVersion): string {
   const lines = [
     'TY  - DATA',
-    ...v.metadata.creators.map((c) => {
-      const n = splitName(c)
-      return `AU  - ${n.given ? `${n.family}, ${n.given}` : n.family}`
-    }),
+    ...v.metadata.creators.map(c => `AU  - ${risName(c)}`),
     `TI  - ${v.title}`,
     `PY  - ${year(v)}`,
     `PB  - ${PUBLISHER}`,
     `ET  - ${v.versionNumber}`,
     ...(v.doi ? [`DO  - ${v.doi}`, `UR  - ${doiUrl(v.doi)}`] : [`UR  - ${v.landingUrl}`]),
     ...(v.metadata.keywords ?? []).map(k => `KW  - ${k}`),
-    `N1  - Licence: ${v.license}`
+    `N1  - Licence: ${v.license}`,
+    ...supplementedArticles(v).map(d => `N1  - Supplement to ${doiUrl(d)}`)
   ]
   // each tag one line, whatever was stored: a line break in a value cannot open another record
   return [...lines.map(oneLine), 'ER  - '].join('\r\n') + '\r\n'
@@ -67,15 +83,7 @@ export function cffDoc (v: CitableVersion): Record<string, unknown> {
     'message': 'If you use these data, please cite them as below.',
     'type': 'dataset',
     'title': v.title,
-    'authors': v.metadata.creators.map((c) => {
-      const n = splitName(c)
-      return {
-        'family-names': n.family,
-        ...(n.given ? { 'given-names': n.given } : {}),
-        ...(c.orcid ? { orcid: `https://orcid.org/${c.orcid}` } : {}),
-        ...(c.affiliation ? { affiliation: c.affiliation } : {})
-      }
-    }),
+    'authors': v.metadata.creators.map(cffAuthor),
     'version': String(v.versionNumber),
     ...(v.doi ? { doi: v.doi } : {}),
     ...(v.publishedAt ? { 'date-released': v.publishedAt.toISOString().slice(0, 10) } : {}),
@@ -83,8 +91,13 @@ export function cffDoc (v: CitableVersion): Record<string, unknown> {
     'url': v.landingUrl,
     ...(v.metadata.keywords?.length ? { keywords: v.metadata.keywords } : {}),
     ...(v.description ? { abstract: v.description } : {}),
-    ...(v.conceptDoi
-      ? { identifiers: [{ type: 'doi', value: v.conceptDoi, description: 'All versions of this dataset' }] }
+    ...(v.conceptDoi || supplementedArticles(v).length
+      ? {
+          identifiers: [
+            ...(v.conceptDoi ? [{ type: 'doi', value: v.conceptDoi, description: 'All versions of this dataset' }] : []),
+            ...supplementedArticles(v).map(d => ({ type: 'doi', value: d, description: 'The article these data supplement' }))
+          ]
+        }
       : {})
   }
   return doc
@@ -94,7 +107,8 @@ export function cffDoc (v: CitableVersion): Record<string, unknown> {
 export function selectionCff (cited: CitableVersion[], title: string, url: string): string {
   const refs = cited.map((c) => {
     const { 'cff-version': _v, message: _m, ...ref } = cffDoc(c)
-    return ref
+    // CFF 1.2.0 reference types have no "dataset": a dataset is "data"
+    return { ...ref, type: 'data' } as Record<string, unknown>
   })
   const licences = [...new Set(cited.map(c => c.license))]
   const authors = [
@@ -113,27 +127,71 @@ export function selectionCff (cited: CitableVersion[], title: string, url: strin
   })
 }
 
-/** schema.org Dataset for the landing page's head. */
-export function jsonLd (v: CitableVersion) {
+/** What the records of a version measure, as schema.org PropertyValues (units as UN/CEFACT common codes). */
+const VARIABLES = [
+  { name: 'rate constant', unitText: 's⁻¹ (first order) or M⁻¹ s⁻¹ (second order)', description: 'Electron-transfer rate constant k' },
+  { name: 'driving force', unitCode: 'A53', unitText: 'eV', description: 'Standard free-energy change ΔG° of the electron transfer' },
+  { name: 'temperature', unitCode: 'KEL', unitText: 'K', description: 'Temperature of the measurement' },
+  { name: 'donor–acceptor distance', unitCode: 'A11', unitText: 'Å', description: 'Centre-to-centre distance' }
+]
+
+/**
+ * schema.org Dataset for the landing page's head (what dataset search engines read). A withdrawn version keeps its
+ * description, marked with creativeWorkStatus, and offers no download.
+ */
+export function jsonLd (v: CitableVersion, techniques: string[] = []) {
+  const id = v.doi ? doiUrl(v.doi) : v.landingUrl
+  const withdrawn = !!v.withdrawnAt
+  // nothing to download while withdrawn or under embargo
+  const downloadable = !withdrawn && !(v.embargoUntil && v.embargoUntil > new Date().toISOString().slice(0, 10))
   return {
     '@context': 'https://schema.org',
     '@type': 'Dataset',
+    '@id': id,
     'name': v.title,
     'description': v.description || v.title,
     'url': v.landingUrl,
     ...(v.doi ? { identifier: doiUrl(v.doi), sameAs: doiUrl(v.doi) } : {}),
     'version': String(v.versionNumber),
-    'license': `https://spdx.org/licenses/${v.license}.html`,
-    'datePublished': v.publishedAt?.toISOString().slice(0, 10),
-    'keywords': v.metadata.keywords,
-    'creator': v.metadata.creators.map(c => ({
-      '@type': 'Person',
-      'name': c.name,
-      ...(c.orcid ? { '@id': `https://orcid.org/${c.orcid}` } : {}),
-      ...(c.affiliation ? { affiliation: { '@type': 'Organization', 'name': c.affiliation } } : {})
-    })),
+    'license': licenceUrl(v.license),
+    ...(v.publishedAt ? { datePublished: v.publishedAt.toISOString().slice(0, 10) } : {}),
+    ...(v.metadata.keywords?.length ? { keywords: v.metadata.keywords } : {}),
+    'creator': v.metadata.creators.map((c) => {
+      const p = creatorParts(c)
+      if (p.kind === 'organization') return { '@type': 'Organization', 'name': p.name }
+      return {
+        '@type': 'Person',
+        'name': p.kind === 'person' && p.given ? `${p.given} ${p.family}` : p.kind === 'person' ? p.family : p.name,
+        ...(p.kind === 'person' ? { familyName: p.family, ...(p.given ? { givenName: p.given } : {}) } : {}),
+        ...(c.orcid ? { '@id': `https://orcid.org/${c.orcid}` } : {}),
+        ...(c.affiliation ? { affiliation: { '@type': 'Organization', 'name': c.affiliation } } : {})
+      }
+    }),
     'publisher': { '@type': 'Organization', 'name': PUBLISHER },
-    'isAccessibleForFree': true
+    'includedInDataCatalog': { '@type': 'DataCatalog', 'name': PUBLISHER, 'url': v.datasetUrl.replace(/\/datasets\/\d+$/, '/datasets') },
+    'isAccessibleForFree': true,
+    'variableMeasured': VARIABLES.map(x => ({ '@type': 'PropertyValue', ...x })),
+    ...(techniques.length ? { measurementTechnique: techniques } : {}),
+    ...(v.metadata.funding?.length
+      ? { funder: v.metadata.funding.map(f => ({ '@type': 'Organization', 'name': f.funderName })) }
+      : {}),
+    ...(supplementedArticles(v).length
+      ? { citation: supplementedArticles(v).map(d => ({ '@type': 'ScholarlyArticle', '@id': doiUrl(d), 'identifier': doiUrl(d) })) }
+      : {}),
+    ...(v.conceptDoi ? { isPartOf: { '@type': 'Dataset', '@id': doiUrl(v.conceptDoi), 'name': `${v.title} (all versions)` } } : {}),
+    ...(withdrawn ? { creativeWorkStatus: 'Withdrawn' } : {}),
+    ...(!downloadable
+      ? {}
+      : {
+          distribution: [
+            {
+              '@type': 'DataDownload',
+              'encodingFormat': 'application/zip',
+              'name': 'BagIt bundle: records as CSV and JSON, schemas, citations, checksums',
+              'contentUrl': v.datasetUrl.replace('/datasets/', '/api/v1/datasets/') + `/bundle?version=${v.versionNumber}`
+            }
+          ]
+        })
   }
 }
 

@@ -8,6 +8,7 @@
  * This file: the citable shape, DataCite JSON and CSL-JSON; citation-formats.ts: BibTeX, RIS, CFF, JSON-LD.
  */
 import type { Creator, DatasetMetadataV1 } from '../../../shared/records/types'
+import { creatorParts } from '../../../shared/records/creators'
 import { publicUrl } from '../services/mail'
 
 export interface CitableVersion {
@@ -20,8 +21,13 @@ export interface CitableVersion {
   doi: string | null
   conceptDoi: string | null
   publishedAt: Date | null
+  /** set on a withdrawn version (its tombstone stays citable) */
+  withdrawnAt: Date | null
+  embargoUntil: string | null
   labName: string
   landingUrl: string
+  /** the version-less landing page (canonical) */
+  datasetUrl: string
 }
 
 export const PUBLISHER = 'Crosspoint'
@@ -37,6 +43,8 @@ export function toCitable (
     license: string
     doi: string | null
     publishedAt: Date | null
+    withdrawnAt?: Date | null
+    embargoUntil?: string | null
   },
   conceptDoi: string | null,
   labName: string
@@ -51,64 +59,99 @@ export function toCitable (
     doi: v.doi,
     conceptDoi,
     publishedAt: v.publishedAt,
+    withdrawnAt: v.withdrawnAt ?? null,
+    embargoUntil: v.embargoUntil ?? null,
     labName,
-    landingUrl: publicUrl(`/datasets/${v.datasetId}?version=${v.versionNumber}`)
+    landingUrl: publicUrl(`/datasets/${v.datasetId}?version=${v.versionNumber}`),
+    datasetUrl: publicUrl(`/datasets/${v.datasetId}`)
   }
 }
 export const CITATION_FORMATS = ['bibtex', 'ris', 'csl-json', 'datacite-json', 'cff'] as const
 export type CitationFormat = (typeof CITATION_FORMATS)[number]
 
-export function splitName (c: Creator): { family: string, given: string } {
-  if (c.name.includes(',')) {
-    const [f, g] = c.name.split(',')
-    return { family: f!.trim(), given: (g ?? '').trim() }
-  }
-  const parts = c.name.trim().split(/\s+/)
-  return parts.length > 1 ? { family: parts.pop()!, given: parts.join(' ') } : { family: parts[0] ?? '', given: '' }
+/** A creator as CSL-JSON names one: family and given parts, or the whole name as a literal. */
+export function cslName (c: Creator): { family: string, given?: string } | { literal: string } {
+  const p = creatorParts(c)
+  return p.kind === 'person' ? { family: p.family, ...(p.given ? { given: p.given } : {}) } : { literal: p.name }
 }
+/** The article these data supplement (the DOIs of related works with that relation). */
+export function supplementedArticles (v: CitableVersion): string[] {
+  return (v.metadata.relatedIdentifiers ?? [])
+    .filter(r => r.relationType === 'IsSupplementTo' && r.identifierType === 'DOI')
+    .map(r => r.identifier)
+}
+/** SPDX identifiers of the licences offered, with their names. */
+export const LICENCE_NAMES: Record<string, string> = {
+  'CC-BY-4.0': 'Creative Commons Attribution 4.0 International',
+  'CC0-1.0': 'Creative Commons Zero v1.0 Universal',
+  'CC-BY-SA-4.0': 'Creative Commons Attribution Share Alike 4.0 International',
+  'ODC-By-1.0': 'Open Data Commons Attribution License v1.0',
+  'PDDL-1.0': 'Open Data Commons Public Domain Dedication & License 1.0'
+}
+export const licenceUrl = (spdx: string) => `https://spdx.org/licenses/${spdx}.html`
 export const year = (v: CitableVersion) => (v.publishedAt ?? new Date()).getUTCFullYear()
 export const doiUrl = (d: string) => `https://doi.org/${d}`
 
+const day = (d: Date) => d.toISOString().slice(0, 10)
+
+/**
+ * DataCite JSON as the REST API takes it: `attributes` hold the DataCite Metadata Schema 4.3 properties (valid against
+ * its JSON schema) plus the REST-only `doi` and `url`.
+ */
 export function dataciteJson (v: CitableVersion) {
   const m = v.metadata
+  const issued = v.publishedAt ? day(v.publishedAt) : undefined
+  const available = m.embargoUntil && issued && m.embargoUntil > issued ? m.embargoUntil : issued
   return {
     data: {
       type: 'dois',
       attributes: {
         doi: v.doi,
         url: v.landingUrl,
+        identifiers: v.doi ? [{ identifier: v.doi, identifierType: 'DOI' }] : [],
         types: { resourceTypeGeneral: 'Dataset', resourceType: 'Electron-transfer rate records' },
         titles: [{ title: v.title }],
-        creators: m.creators.map(c => ({
-          name: c.name,
-          nameType: 'Personal',
-          familyName: splitName(c).family,
-          givenName: splitName(c).given,
-          nameIdentifiers: c.orcid
-            ? [
-                {
-                  nameIdentifier: `https://orcid.org/${c.orcid}`,
-                  nameIdentifierScheme: 'ORCID',
-                  schemeUri: 'https://orcid.org'
-                }
-              ]
-            : [],
-          affiliation: c.affiliation
-            ? [
-                {
-                  name: c.affiliation,
-                  ...(c.rorId ? { affiliationIdentifier: c.rorId, affiliationIdentifierScheme: 'ROR' } : {})
-                }
-              ]
-            : []
-        })),
-        publisher: { name: PUBLISHER },
-        publicationYear: year(v),
+        creators: m.creators.map((c) => {
+          const p = creatorParts(c)
+          return {
+            name: p.kind === 'person' ? (p.given ? `${p.family}, ${p.given}` : p.family) : p.name,
+            nameType: p.kind === 'organization' ? 'Organizational' : 'Personal',
+            ...(p.kind === 'person' ? { familyName: p.family, ...(p.given ? { givenName: p.given } : {}) } : {}),
+            nameIdentifiers: c.orcid
+              ? [{ nameIdentifier: `https://orcid.org/${c.orcid}`, nameIdentifierScheme: 'ORCID', schemeUri: 'https://orcid.org' }]
+              : [],
+            affiliation: c.affiliation
+              ? [
+                  {
+                    name: c.affiliation,
+                    ...(c.rorId
+                      ? { affiliationIdentifier: c.rorId, affiliationIdentifierScheme: 'ROR', schemeUri: 'https://ror.org' }
+                      : {})
+                  }
+                ]
+              : []
+          }
+        }),
+        publisher: PUBLISHER,
+        publicationYear: String(year(v)),
+        dates: [
+          ...(issued ? [{ date: issued, dateType: 'Issued' }] : []),
+          ...(available ? [{ date: available, dateType: 'Available' }] : []),
+          ...(v.withdrawnAt
+            ? [{ date: day(v.withdrawnAt), dateType: 'Withdrawn', dateInformation: 'Withdrawn; the landing page remains' }]
+            : [])
+        ],
         version: String(v.versionNumber),
         descriptions: v.description ? [{ description: v.description, descriptionType: 'Abstract' }] : [],
         subjects: (m.keywords ?? []).map(k => ({ subject: k })),
         rightsList: [
-          { rightsIdentifier: v.license, rightsIdentifierScheme: 'SPDX', schemeUri: 'https://spdx.org/licenses/' }
+          {
+            rights: LICENCE_NAMES[v.license] ?? v.license,
+            rightsUri: licenceUrl(v.license),
+            rightsIdentifier: v.license,
+            rightsIdentifierScheme: 'SPDX',
+            schemeUri: 'https://spdx.org/licenses/'
+          }
         ],
         relatedIdentifiers: [
           ...(m.relatedIdentifiers ?? []).map(r => ({
@@ -123,7 +166,8 @@ export function dataciteJson (v: CitableVersion) {
         fundingReferences: (m.funding ?? []).map(f => ({
           funderName: f.funderName,
           ...(f.awardNumber ? { awardNumber: f.awardNumber } : {})
-        }))
+        })),
+        schemaVersion: 'http://datacite.org/schema/kernel-4'
       }
     }
   }
@@ -135,13 +179,14 @@ export function cslJson (v: CitableVersion) {
       id: `crosspoint-${v.datasetId}-v${v.versionNumber}`,
       type: 'dataset',
       title: v.title,
-      author: v.metadata.creators.map(splitName),
+      author: v.metadata.creators.map(cslName),
       issued: { 'date-parts': [[year(v)]] },
       publisher: PUBLISHER,
       version: String(v.versionNumber),
       ...(v.doi ? { DOI: v.doi, URL: doiUrl(v.doi) } : { URL: v.landingUrl }),
       abstract: v.description || undefined,
-      license: v.license
+      // CSL-JSON has no licence or related-work variable: both go into the note
+      note: [`Licence: ${v.license}`, ...supplementedArticles(v).map(d => `Supplement to https://doi.org/${d}`)].join('. ')
     }
   ]
 }

@@ -6,6 +6,7 @@ import { desc, eq } from 'drizzle-orm'
 import { useDb, schema } from '../storage/db'
 import { toCitable, type CitableVersion } from './citation'
 import { jsonLd } from './citation-formats'
+import { TECHNIQUE_LABELS } from '../../../shared/vocabulary'
 import { coerceNumbers, queryValidated } from '../http/validation'
 import type { H3Event } from 'h3'
 
@@ -91,6 +92,16 @@ async function reviewNotes (versionId: number) {
   return { decision: rev.decision, comment: rev.comment, at: rev.createdAt, comments }
 }
 
+/** The measurement techniques a version's records name, in words (schema.org measurementTechnique). */
+async function versionTechniques (versionId: number): Promise<string[]> {
+  const db = await useDb()
+  const rows = await db
+    .selectDistinct({ t: schema.rateRecords.technique })
+    .from(schema.rateRecords)
+    .where(eq(schema.rateRecords.versionId, versionId))
+  return rows.map(r => r.t).filter((t): t is string => !!t).map(t => TECHNIQUE_LABELS[t] ?? t).sort()
+}
+
 export async function datasetView (
   viewer: Viewer | null,
   id: number,
@@ -151,7 +162,9 @@ export async function datasetView (
     recordPage: { page: rq.page, pageSize: rq.pageSize, total: hideRecords ? 0 : version.recordCount },
     review: isMember ? await reviewNotes(version.id) : null,
     jsonLd:
-      version.doi && version.state === 'published' ? jsonLd(toCitable(version, dataset.conceptDoi, lab.name)) : null,
+      version.doi && ['published', 'withdrawn'].includes(version.state)
+        ? jsonLd(toCitable(version, dataset.conceptDoi, lab.name), await versionTechniques(version.id))
+        : null,
     recordsHidden: hideRecords ? (version.state === 'withdrawn' ? 'withdrawn' : 'embargo') : null
   }
 }
