@@ -91,4 +91,31 @@ describe('a contributor deposits a dataset', () => {
     expect(errors).toEqual([])
     await page.close()
   })
+  it('creators are entered as family and given names or as an organisation, and cited that way', async () => {
+    const { page, errors } = await newPage(browser)
+    await signInAs(page, s.url, DEMO.contributorA)
+    await page.goto(`${s.url}/deposit`, { waitUntil: 'networkidle' })
+    await page.fill('#new-title', 'Names (demo)')
+    await page.click('[data-test=create-dataset]')
+    await page.waitForURL(/\/deposit\/\d+$/)
+    const id = Number(page.url().split('/').pop())
+    // the account's one name is offered as stored, with a request to give its parts
+    expect(await page.locator('[data-test=creator-1]').textContent()).toContain('give the family and given names')
+    await page.getByLabel('Creator 1 family name').fill('García Márquez')
+    await page.getByLabel('Creator 1 given names').fill('Gabriela')
+    await page.getByRole('button', { name: '+ creator' }).click()
+    await page.getByLabel('Creator 2: person or organisation').selectOption('organization')
+    await page.getByLabel('Creator 2 organisation name').fill('Meridian Charge-Transfer Consortium (fictional)')
+    await page.getByRole('button', { name: 'Save metadata' }).click()
+    await page.waitForFunction(() => document.body.textContent!.includes('Saved.'))
+    const cookie = (await page.context().cookies()).map(c => `${c.name}=${c.value}`).join('; ')
+    const meta = (await api(s.url, `/api/v1/datasets/${id}`, { headers: { cookie } })).data.version.metadata
+    expect(meta.creators).toEqual([
+      expect.objectContaining({ name: 'García Márquez, Gabriela', nameType: 'Personal', familyName: 'García Márquez', givenName: 'Gabriela' }),
+      expect.objectContaining({ name: 'Meridian Charge-Transfer Consortium (fictional)', nameType: 'Organizational' })
+    ])
+    await shot(page, 'deposit-creators')
+    expect(errors).toEqual([])
+    await page.close()
+  })
 })
