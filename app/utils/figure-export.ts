@@ -38,7 +38,7 @@ export function wrapWords (text: string, max: number): string[] {
 export function captionedSvg (plot: SVGSVGElement, caption: string, legend: LegendEntry[] = []): string {
   const w = Number(plot.getAttribute('width')) || plot.getBoundingClientRect().width
   const h = Number(plot.getAttribute('height')) || plot.getBoundingClientRect().height
-  const root = el('svg', { xmlns: SVG_NS, width: w, height: 0, 'font-family': 'Public Sans, system-ui, sans-serif' })
+  const root = el('svg', { 'xmlns': SVG_NS, 'width': w, 'height': 0, 'font-family': 'Public Sans, system-ui, sans-serif' })
   root.appendChild(el('rect', { x: 0, y: 0, width: w, height: '100%', fill: 'white' }))
   const inner = plot.cloneNode(true) as SVGSVGElement
   inner.setAttribute('x', '0')
@@ -58,7 +58,7 @@ export function captionedSvg (plot: SVGSVGElement, caption: string, legend: Lege
       e.kind === 'dot'
         ? el('circle', { cx: x + 5, cy: y - 3, r: 4, fill: e.color })
         : el('line', {
-            x1: x, y1: y - 3, x2: x + 14, y2: y - 3, stroke: e.color, 'stroke-width': 2, ...(e.dash ? { 'stroke-dasharray': e.dash } : {})
+            'x1': x, 'y1': y - 3, 'x2': x + 14, 'y2': y - 3, 'stroke': e.color, 'stroke-width': 2, ...(e.dash ? { 'stroke-dasharray': e.dash } : {})
           })
     )
     legendGroup.appendChild(el('text', { x: x + 18, y }, e.label))
@@ -68,7 +68,7 @@ export function captionedSvg (plot: SVGSVGElement, caption: string, legend: Lege
   const top = legend.length ? y + 10 : h
   // the caption: about 5.2 px a character at 9.5 px type
   const lines = wrapWords(caption, Math.max(40, Math.floor((w - 16) / 5.2)))
-  const captionGroup = el('g', { 'data-part': 'caption', 'font-size': 9.5, fill: '#222' })
+  const captionGroup = el('g', { 'data-part': 'caption', 'font-size': 9.5, 'fill': '#222' })
   lines.forEach((l, i) => captionGroup.appendChild(el('text', { x: 8, y: top + 13 * (i + 1) }, l)))
   root.appendChild(captionGroup)
   const height = Math.ceil(top + 13 * lines.length + 10)

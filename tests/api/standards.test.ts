@@ -38,7 +38,7 @@ function draft7 () {
   const ym = `${year}-(0[1-9]|1[0-2])`
   const date = `${ym}-(0[1-9]|[12]\\d|3[01])`
   const dt = `${date}T\\d{2}:\\d{2}(:\\d{2}(\\.\\d+)?)?(Z|[+-]\\d{2}:\\d{2})?`
-  const formats: Record<string, string> = { 'year': year, 'yearmonth': ym, 'datetime': dt }
+  const formats: Record<string, string> = { year: year, yearmonth: ym, datetime: dt }
   for (const [k, re] of Object.entries({ year, yearmonth: ym, date, datetime: dt })) formats[`${k}-range`] = `${re}/${re}`
   for (const [name, re] of Object.entries(formats)) ajv.addFormat(name, new RegExp(`^${re}$`))
   return ajv
@@ -146,7 +146,7 @@ describe('landing pages for people and crawlers', () => {
     expect(w[0]['http://schema.org/creativeWorkStatus'][0]['@value']).toBe('Withdrawn')
   })
   it('missing or hidden datasets and records answer 404 with noindex; others have their own description, a canonical link and Open Graph', async () => {
-    for (const path of ['/datasets/99999', '/records/99999999', '/datasets/3' /* another lab's draft */]) {
+    for (const path of ['/datasets/99999', '/records/99999999', '/datasets/3']) {
       const r = await page(path)
       expect(r.status, path).toBe(404)
       expect(r.html).toMatch(/<meta name="robots" content="noindex">/)
