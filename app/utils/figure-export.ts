@@ -58,7 +58,8 @@ export function captionedSvg (plot: SVGSVGElement, caption: string, legend: Lege
       e.kind === 'dot'
         ? el('circle', { cx: x + 5, cy: y - 3, r: 4, fill: e.color })
         : el('line', {
-            'x1': x, 'y1': y - 3, 'x2': x + 14, 'y2': y - 3, 'stroke': e.color, 'stroke-width': 2, ...(e.dash ? { 'stroke-dasharray': e.dash } : {})
+            'x1': x, 'y1': y - 3, 'x2': x + 14, 'y2': y - 3, 'stroke': e.color, 'stroke-width': 2,
+            ...(e.dash ? { 'stroke-dasharray': e.dash } : {})
           })
     )
     legendGroup.appendChild(el('text', { x: x + 18, y }, e.label))
