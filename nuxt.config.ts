@@ -24,6 +24,9 @@ export default defineNuxtConfig({
   runtimeConfig: {
     databaseUrl: 'file:./data/crosspoint.db',
     databaseAuthToken: '',
+    /** OAI-PMH: items per list response (then a resumption token), and the contact the Identify verb names */
+    oaiPageSize: 100,
+    oaiAdminEmail: 'curators@crosspoint.example',
     dataDir: './data',
     authSecret: DEMO_AUTH_SECRET,
     smtpUrl: '',
