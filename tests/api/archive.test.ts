@@ -1,6 +1,9 @@
 import { readdirSync, statSync } from 'node:fs'
 import { join, relative } from 'node:path'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
+import SwaggerParser from '@apidevtools/swagger-parser'
+import Ajv2020 from 'ajv/dist/2020.js'
+import addFormats from 'ajv-formats'
 import { api, ROOT, signIn, startServer, type TestServer } from '../helpers/server'
 
 let s: TestServer
@@ -40,6 +43,79 @@ describe('service routes', () => {
       expect(params.map(p => p.name)).toEqual(expect.arrayContaining(['id', 'records', 'sort', 'page', 'pageSize']))
       expect(params.find(p => p.name === 'sort')!.schema.enum).toContain('-log10Rate')
     }
+  })
+  it('the OpenAPI document passes a maintained validator and states parameters, security, operation ids and errors', async () => {
+    const doc = (await api(s.url, '/api/v1/openapi.json')).data
+    // @apidevtools/swagger-parser validates against the official OpenAPI 3.1 schema and resolves every $ref
+    await SwaggerParser.validate(structuredClone(doc))
+    const ids = new Set<string>()
+    for (const [path, ops] of Object.entries(doc.paths) as [string, Record<string, any>][]) {
+      for (const [method, op] of Object.entries(ops)) {
+        const where = `${method.toUpperCase()} ${path}`
+        // every template segment is a required path parameter (OpenAPI 3.1 §4.8.12.1)
+        for (const [, name] of path.matchAll(/\{(\w+)\}/g))
+          expect(op.parameters.find((p: any) => p.in === 'path' && p.name === name)?.required, `${where} {${name}}`).toBe(true)
+        expect(op.operationId, where).toMatch(/^[a-z]+[A-Za-z]+$/)
+        expect(ids.has(op.operationId), `${where}: operationId unique`).toBe(false)
+        ids.add(op.operationId)
+        expect(op.security?.length, where).toBeGreaterThan(0)
+        for (const [code, r] of Object.entries(op.responses) as [string, any][]) {
+          if (code.startsWith('4')) expect(r.$ref ?? r.content['application/json'].schema.$ref, `${where} ${code}`).toMatch(/Problem/)
+        }
+      }
+    }
+    expect(Object.keys(doc.components.securitySchemes)).toEqual(['bearerToken', 'sessionCookie'])
+    // the lists that were lost before: search and dataset-list parameters, the citation format (required, with values)
+    const names = (path: string) => doc.paths[path].get.parameters.map((p: any) => p.name)
+    expect(names('/api/v1/records')).toEqual(expect.arrayContaining(['q', 'process', 'deltaGMin', 'log10RateMax', 'sort', 'page']))
+    expect(names('/api/v1/datasets')).toEqual(expect.arrayContaining(['q', 'state', 'lab', 'page', 'pageSize']))
+    const format = doc.paths['/api/v1/datasets/{id}/citation'].get.parameters.find((p: any) => p.name === 'format')
+    expect(format).toMatchObject({ required: true, schema: { enum: ['bibtex', 'ris', 'csl-json', 'datacite-json', 'cff'] } })
+    expect(names('/api/v1/datasets/{id}/bundle')).toEqual(['id', 'version'])
+  })
+  it('operations documented as public answer a visitor; the others answer 401 (every GET without path parameters)', async () => {
+    const doc = (await api(s.url, '/api/v1/openapi.json')).data
+    for (const [path, ops] of Object.entries(doc.paths) as [string, Record<string, any>][]) {
+      if (!ops.get || path.includes('{')) continue
+      const open = ops.get.security.some((r: object) => Object.keys(r).length === 0)
+      const status = (await fetch(s.url + path)).status
+      if (open) expect(status, path).not.toBe(401)
+      else expect(status, path).toBe(401)
+    }
+  })
+  it('live answers of the public GET routes match their documented response schemas', async () => {
+    const doc = (await api(s.url, '/api/v1/openapi.json')).data
+    const ajv = new Ajv2020({ strict: false, allErrors: true })
+    addFormats(ajv)
+    const examples: Record<string, string> = {
+      '/api/v1/records': '/api/v1/records?q=porphyrin&pageSize=5',
+      '/api/v1/records/ids': '/api/v1/records/ids?solvent=toluene',
+      '/api/v1/records/{id}': '/api/v1/records/200',
+      '/api/v1/records/{id}/similar': '/api/v1/records/200/similar?limit=3',
+      '/api/v1/datasets': '/api/v1/datasets',
+      '/api/v1/datasets/{id}': '/api/v1/datasets/1?pageSize=3',
+      '/api/v1/datasets/{id}/versions/{n}': '/api/v1/datasets/1/versions/1?pageSize=3',
+      '/api/v1/labs': '/api/v1/labs',
+      '/api/v1/health': '/api/v1/health',
+      '/api/v1/overview': '/api/v1/overview',
+      '/api/v1/solvents': '/api/v1/solvents',
+      '/api/v1/me': '/api/v1/me'
+    }
+    let checked = 0
+    for (const [path, ops] of Object.entries(doc.paths) as [string, Record<string, any>][]) {
+      const schema = ops.get?.responses['200']?.content?.['application/json']?.schema
+      if (!schema) continue
+      expect(examples[path], `an example request for ${path}`).toBeDefined()
+      const r = await api(s.url, examples[path]!)
+      expect(r.status, path).toBe(200)
+      const validate = ajv.compile(schema)
+      expect(validate(r.data), `${path}: ${JSON.stringify(validate.errors)}`).toBe(true)
+      checked++
+    }
+    expect(checked).toBe(Object.keys(examples).length)
+    // and the problem shape of an error answer
+    const bad = await api(s.url, '/api/v1/records?sort=sideways')
+    expect(ajv.compile(doc.components.schemas.Problem)(bad.data)).toBe(true)
   })
   it('serves the schemas with $id equal to their public URL', async () => {
     for (const name of ['rate-record.v1.json', 'dataset.v1.json']) {

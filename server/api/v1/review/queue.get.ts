@@ -1,5 +1,6 @@
 import { requireCurator, reviewQueue } from '../../../utils/review'
 import { coerceNumbers, queryValidated } from '../../../utils/http/validation'
+import { REVIEW_QUEUE_QUERY } from '../../../utils/http/query-schemas'
 
 defineRouteMeta({
   openAPI: {
@@ -11,11 +12,7 @@ defineRouteMeta({
 export default defineEventHandler(async (event) => {
   const q = queryValidated<{ lab?: number, q?: string }>(
     event,
-    {
-      type: 'object',
-      additionalProperties: false,
-      properties: { lab: { type: 'integer', minimum: 1 }, q: { type: 'string', maxLength: 200 } }
-    },
+    REVIEW_QUEUE_QUERY,
     coerceNumbers(['lab'])
   )
   const v = await requireCurator(event)

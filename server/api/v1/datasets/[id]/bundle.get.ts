@@ -7,13 +7,13 @@ import { httpError } from '../../../../utils/http/errors'
 import { publicUrl } from '../../../../utils/services/mail'
 import { intParam } from '../../../../utils/http/params'
 import { coerceNumbers, queryValidated } from '../../../../utils/http/validation'
+import { BUNDLE_QUERY } from '../../../../utils/http/query-schemas'
 
 defineRouteMeta({
   openAPI: {
     tags: ['bundles'],
     summary:
       'Download a dataset version (default: newest published) as a BagIt ZIP with CSV, JSON, schemas, README, citations and checksums',
-    parameters: [{ in: 'query', name: 'version', schema: { type: 'integer' } }],
     responses: { 200: { description: 'application/zip' } }
   }
 })
@@ -22,7 +22,7 @@ export default defineEventHandler(async (event) => {
   const id = intParam(event, 'id')
   const q = queryValidated<{ version?: number }>(
     event,
-    { type: 'object', additionalProperties: false, properties: { version: { type: 'integer', minimum: 1 } } },
+    BUNDLE_QUERY,
     coerceNumbers(['version'])
   )
   const viewer = await getViewer(event)

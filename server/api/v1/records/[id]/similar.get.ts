@@ -4,6 +4,7 @@ import { httpError } from '../../../../utils/http/errors'
 import { intParam } from '../../../../utils/http/params'
 import { similarTo } from '../../../../utils/search/search'
 import { coerceNumbers, queryValidated } from '../../../../utils/http/validation'
+import { SIMILAR_QUERY } from '../../../../utils/http/query-schemas'
 
 defineRouteMeta({
   openAPI: {
@@ -11,8 +12,7 @@ defineRouteMeta({
     summary:
       'Records of similar systems, with the score and why (closeness in ΔG°, solvent polarity, distance, temperature, '
       + 'process, linkage, and donor/acceptor structures by Morgan-fingerprint Tanimoto, or names where structures '
-      + 'are missing)',
-    parameters: [{ in: 'query', name: 'limit', schema: { type: 'integer', maximum: 100 } }]
+      + 'are missing)'
   }
 })
 
@@ -20,11 +20,7 @@ export default defineEventHandler(async (event) => {
   const id = intParam(event, 'id')
   const { limit } = queryValidated<{ limit?: number }>(
     event,
-    {
-      type: 'object',
-      additionalProperties: false,
-      properties: { limit: { type: 'integer', minimum: 1, maximum: 100 } }
-    },
+    SIMILAR_QUERY,
     coerceNumbers(['limit'])
   )
   const viewer = await getViewer(event)

@@ -1,0 +1,41 @@
+/**
+ * Query-string schemas of the GET routes, one object each: the route validates with it and the OpenAPI document
+ * lists its properties as the operation's query parameters (names, types, bounds, enums, required).
+ */
+import { pagingProperties } from './params'
+import { CITATION_FORMATS } from '../publishing/citation'
+
+export const DATASET_LIST_QUERY = {
+  type: 'object',
+  additionalProperties: false,
+  properties: {
+    q: { type: 'string', maxLength: 200, description: 'words of the title or lab' },
+    state: { enum: ['draft', 'submitted', 'returned', 'published', 'withdrawn'] },
+    lab: { type: 'integer', minimum: 1 },
+    ...pagingProperties
+  }
+}
+export const CITATION_QUERY = {
+  type: 'object',
+  required: ['format'],
+  additionalProperties: false,
+  properties: {
+    format: { enum: [...CITATION_FORMATS] },
+    version: { type: 'integer', minimum: 1, description: 'a published version (default: the newest)' }
+  }
+}
+export const BUNDLE_QUERY = {
+  type: 'object',
+  additionalProperties: false,
+  properties: { version: { type: 'integer', minimum: 1, description: 'a published version (default: the newest)' } }
+}
+export const SIMILAR_QUERY = {
+  type: 'object',
+  additionalProperties: false,
+  properties: { limit: { type: 'integer', minimum: 1, maximum: 100 } }
+}
+export const REVIEW_QUEUE_QUERY = {
+  type: 'object',
+  additionalProperties: false,
+  properties: { lab: { type: 'integer', minimum: 1 }, q: { type: 'string', maxLength: 200 } }
+}
