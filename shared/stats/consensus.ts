@@ -30,7 +30,8 @@ export interface Consensus {
 export function dersimonianLaird (ms: readonly Measurement[]): Consensus {
   if (!ms.length) throw new RangeError('no measurements')
   for (const m of ms) {
-    if (!Number.isFinite(m.y) || !Number.isFinite(m.sigma) || m.sigma <= 0) throw new RangeError('each measurement needs a finite value and σ > 0')
+    if (!Number.isFinite(m.y) || !Number.isFinite(m.sigma) || m.sigma <= 0)
+      throw new RangeError('each measurement needs a finite value and σ > 0')
   }
   const w = ms.map(m => 1 / (m.sigma * m.sigma))
   const sw = w.reduce((a, b) => a + b, 0)
