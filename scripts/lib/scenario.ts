@@ -108,6 +108,8 @@ export interface DemoDataset {
   license: string
   family: Family
   returnComment?: string
+  /** records made otherwise than by drawing from the family (the interlaboratory study) */
+  make?: (versionIndex: number) => RateRecordV1[]
 }
 
 const porph: Family = {
@@ -178,8 +180,63 @@ export const DATASETS: DemoDataset[] = [
       dgRange: [-0.45, -0.25], temperatures: [200, 220, 240, 260, 280, 298.15, 320, 340], distances: [10, 11], noise: 0.08, count: 200 } }
 ]
 
+/**
+ * An invented interlaboratory study: three labs each measure the same four dyads twice (same donor, acceptor, bridge,
+ * solvent, 298.15 K, one fixed ΔG° per dyad); one lab's value for one dyad is 40× too high, so the archive's
+ * consensus flags it. Values from the semi-classical model with noise, like the rest of the demo.
+ */
+const INTERLAB_SYSTEMS = [
+  { donor: 'ZnP', acceptor: 'NDI', solvent: 'toluene', dg: -0.62 },
+  { donor: 'ZnP', acceptor: 'NDI', solvent: 'benzonitrile', dg: -0.91 },
+  { donor: 'H2P', acceptor: 'NDI', solvent: 'toluene', dg: -0.48 },
+  { donor: 'H2P', acceptor: 'NDI', solvent: 'benzonitrile', dg: -0.77 }
+]
+export const INTERLAB_OUTLIER = { lab: 'delacombe-bio-et', system: 3, log10Offset: Math.log10(40) }
+function interlabRecords (lab: string, labNo: number): RateRecordV1[] {
+  const r = rng(7700 + labNo)
+  const out: RateRecordV1[] = []
+  INTERLAB_SYSTEMS.forEach((sys, si) => {
+    const solvent = SOLVENTS.find(x => x.name === sys.solvent)!
+    const pekar = 1 / solvent.refractiveIndex ** 2 - 1 / solvent.permittivity
+    const ls = 0.7 * (0.35 + 0.65 * pekar / 0.5282)
+    const model = semiclassicalLog10Rates([sys.dg], { lambdaSolvent: ls, lambdaInternal: 0.3, vibrationEnergy: 0.18, coupling: 0.003, temperatureK: 298.15 }).log10Rate[0]!
+    for (let rep = 0; rep < 2; rep++) {
+      const off = lab === INTERLAB_OUTLIER.lab && si === INTERLAB_OUTLIER.system ? INTERLAB_OUTLIER.log10Offset : 0
+      const k = 10 ** (model + off + 0.06 * r.gauss())
+      out.push({
+        system: { donor: { name: sys.donor, class: 'porphyrin' }, acceptor: { name: sys.acceptor, class: 'imide' }, bridge: { name: 'xylylene' }, linkage: 'covalent' },
+        process: 'charge-separation',
+        initialState: 'singlet',
+        medium: { solvent: solvent.name, permittivity: solvent.permittivity, refractiveIndex: solvent.refractiveIndex },
+        temperatureK: 298.15,
+        geometry: { centerToCenterAngstrom: 12.4 },
+        rate: { value: sig(k, 4), uncertainty: sig(k * (10 ** 0.06 - 1), 2), kind: 'unimolecular', method: 'direct' },
+        drivingForce: { value: sys.dg, uncertainty: 0.05, method: 'estimated' },
+        technique: { method: 'transient-absorption', excitationWavelengthNm: 560 },
+        notes: DEMO_NOTE,
+        location: `demo round-robin, dyad ${si + 1}, replicate ${rep + 1}`
+      })
+    }
+  })
+  return out
+}
+const INTERLAB_LABS = ['faulkwood-ultrafast', 'orrel-solar-fuels', 'delacombe-bio-et']
+DATASETS.push(...INTERLAB_LABS.map((lab, i): DemoDataset => ({
+  key: `demo-${21 + i}`,
+  lab,
+  versions: ['published'],
+  title: `Round-robin of four porphyrin–imide dyads, ${['first', 'second', 'third'][i]} lab (demo)`,
+  description: 'The same four xylylene-bridged dyads measured in toluene and benzonitrile at 298.15 K, two replicates each, '
+    + 'as part of an invented interlaboratory comparison. ' + DEMO_NOTE,
+  keywords: ['interlaboratory comparison', 'porphyrin', 'imide'],
+  license: 'CC-BY-4.0',
+  family: porph,
+  make: () => interlabRecords(lab, i)
+})))
+
 /** The records of one demo dataset version (a later version re-draws noise and adds points). */
 export function demoRecords (ds: DemoDataset, versionIndex: number): RateRecordV1[] {
+  if (ds.make) return ds.make(versionIndex)
   const seed = Number(ds.key.replace(/\D/g, '')) * 1000 + versionIndex
   const r = rng(seed)
   const f = ds.family

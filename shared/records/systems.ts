@@ -6,7 +6,7 @@
  * the synonyms below. Temperatures are grouped from the lowest up: a group takes every record within 4 K of its first,
  * so all of its members lie within ±2 K of the group's middle.
  */
-import { DISCREPANCY_Z, dersimonianLaird, leaveOneOutZ, type Consensus } from '../stats/consensus'
+import { DISCREPANCY_Z, dersimonianLaird, leaveGroupOutZ, type Consensus } from '../stats/consensus'
 
 /** Other names of species, normalised form → the normalised name they stand for. */
 export const SPECIES_SYNONYMS: Record<string, string> = {
@@ -124,7 +124,8 @@ function system (key: string, group: SystemMember[], datasetMedian: Map<number, 
   if (labs.size >= 2 && new Set(usable.map(r => r.labId)).size >= 2) {
     const ms = usable.map(r => ({ y: r.log10Rate, sigma: r.sigmaUsed! }))
     consensus = dersimonianLaird(ms)
-    leaveOneOutZ(ms).forEach((z, i) => {
+    // each record against the consensus of the other labs (its own lab's replicates left out with it)
+    leaveGroupOutZ(ms, usable.map(r => r.labId)).forEach((z, i) => {
       usable[i]!.z = z
       usable[i]!.discrepant = Math.abs(z) > DISCREPANCY_Z
     })

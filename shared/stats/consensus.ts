@@ -48,13 +48,26 @@ export function dersimonianLaird (ms: readonly Measurement[]): Consensus {
 
 /**
  * Leave-one-out z of each measurement: its distance from the consensus of all the others, over the spread expected
- * for a new lab's value, z = (yᵢ − μ₋ᵢ) / √(σᵢ² + τ²₋ᵢ + SE₋ᵢ²). Undefined (NaN) with fewer than two measurements.
+ * for a new lab's value, z = (yᵢ − μ₋ᵢ) / √(σᵢ² + τ²₋ᵢ + SE₋ᵢ²). NaN with fewer than two measurements.
  */
 export function leaveOneOutZ (ms: readonly Measurement[]): number[] {
-  if (ms.length < 2) return ms.map(() => Number.NaN)
+  return leaveGroupOutZ(ms, ms.map((_, i) => i))
+}
+
+/**
+ * The same with the measurement's whole group left out (its lab: replicates of one lab do not vouch for each other).
+ * NaN where no other group remains.
+ */
+export function leaveGroupOutZ (ms: readonly Measurement[], groups: readonly (number | string)[]): number[] {
+  const cache = new Map<number | string, Consensus | null>()
   return ms.map((m, i) => {
-    const rest = dersimonianLaird(ms.filter((_, j) => j !== i))
-    return (m.y - rest.mean) / Math.sqrt(m.sigma * m.sigma + rest.tau2 + rest.stderr * rest.stderr)
+    const g = groups[i]!
+    if (!cache.has(g)) {
+      const rest = ms.filter((_, j) => groups[j] !== g)
+      cache.set(g, rest.length ? dersimonianLaird(rest) : null)
+    }
+    const rest = cache.get(g)
+    return rest ? (m.y - rest.mean) / Math.sqrt(m.sigma * m.sigma + rest.tau2 + rest.stderr * rest.stderr) : Number.NaN
   })
 }
 

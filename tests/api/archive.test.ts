@@ -99,7 +99,9 @@ describe('service routes', () => {
       '/api/v1/health': '/api/v1/health',
       '/api/v1/overview': '/api/v1/overview',
       '/api/v1/solvents': '/api/v1/solvents',
-      '/api/v1/me': '/api/v1/me'
+      '/api/v1/me': '/api/v1/me',
+      '/api/v1/systems': '/api/v1/systems?q=xylylene',
+      '/api/v1/systems/{key}': `/api/v1/systems/${(await api(s.url, '/api/v1/systems')).data.items[0].key}`
     }
     let checked = 0
     for (const [path, ops] of Object.entries(doc.paths) as [string, Record<string, any>][]) {

@@ -7,7 +7,9 @@
 import { curveBodySchema, fitBodySchema } from '../model/route-schemas'
 import { RECORD_QUERY_PARAMETERS } from '../publishing/dataset-view'
 import { recordQuerySchema } from '../search/record-query'
-import { BUNDLE_QUERY, CITATION_QUERY, DATASET_LIST_QUERY, REVIEW_QUEUE_QUERY, SIMILAR_QUERY } from './query-schemas'
+import {
+  BUNDLE_QUERY, CITATION_QUERY, DATASET_LIST_QUERY, REVIEW_QUEUE_QUERY, SIMILAR_QUERY, SYSTEM_LIST_QUERY
+} from './query-schemas'
 import { PROBLEM_SCHEMA, RESPONSE_SCHEMAS } from './response-schemas'
 
 type Schema = { type?: string, required?: string[], properties?: Record<string, Record<string, unknown>> }
@@ -34,7 +36,8 @@ const QUERIES: Record<string, Schema> = {
   'GET /api/v1/datasets/{id}/citation': CITATION_QUERY,
   'GET /api/v1/datasets/{id}/bundle': BUNDLE_QUERY,
   'GET /api/v1/records/{id}/similar': SIMILAR_QUERY,
-  'GET /api/v1/review/queue': REVIEW_QUEUE_QUERY
+  'GET /api/v1/review/queue': REVIEW_QUEUE_QUERY,
+  'GET /api/v1/systems': SYSTEM_LIST_QUERY
 }
 const BODIES: Record<string, unknown> = {
   'POST /api/v1/model/curve': curveBodySchema,
@@ -46,7 +49,8 @@ export const PUBLIC_OPERATIONS = new Set([
   'GET /api/v1/datasets', 'GET /api/v1/datasets/{id}', 'GET /api/v1/datasets/{id}/versions/{n}',
   'GET /api/v1/datasets/{id}/bundle', 'GET /api/v1/datasets/{id}/citation', 'GET /api/v1/labs', 'GET /api/v1/labs/{id}',
   'GET /api/v1/health', 'GET /api/v1/overview', 'GET /api/v1/openapi.json', 'GET /api/v1/templates/{file}',
-  'GET /api/v1/solvents', 'GET /api/v1/me', 'POST /api/v1/bundles', 'POST /api/v1/model/curve', 'POST /api/v1/model/fit',
+  'GET /api/v1/solvents', 'GET /api/v1/me', 'GET /api/v1/systems', 'GET /api/v1/systems/{key}',
+  'POST /api/v1/bundles', 'POST /api/v1/model/curve', 'POST /api/v1/model/fit',
   'POST /api/v1/account/signup', 'POST /api/v1/account/login-link', 'POST /api/v1/account/password-reset',
   'POST /api/v1/account/password-reset/confirm', 'POST /api/v1/account/verify'
 ])
@@ -58,6 +62,11 @@ const ERRORS: Record<string, string> = {
   422: 'The query or body is not valid; data.issues names each field'
 }
 
+/** Path parameters that are not positive integers. */
+const PATH_PARAMETER_SCHEMAS: Record<string, object> = {
+  file: { type: 'string' },
+  key: { type: 'string', pattern: '^[0-9a-f]{16}$' }
+}
 const PROBLEM_CONTENT = { 'application/json': { schema: { $ref: '#/components/schemas/Problem' } } }
 
 /** getDatasetsByIdCitation for GET /api/v1/datasets/{id}/citation. */
@@ -82,7 +91,7 @@ function parametersOf (key: string, path: string, given: Parameter[]): Parameter
     in: 'path',
     name,
     required: true,
-    schema: name === 'file' ? { type: 'string' } : { type: 'integer', minimum: 1 }
+    schema: PATH_PARAMETER_SCHEMAS[name] ?? { type: 'integer', minimum: 1 }
   }))
   const keep = given.filter(p => !(p.in === 'path') && !fromSchema.some(q => q.name === p.name && p.in === 'query'))
   return [...pathParams, ...keep, ...fromSchema]

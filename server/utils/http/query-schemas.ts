@@ -39,3 +39,13 @@ export const REVIEW_QUEUE_QUERY = {
   additionalProperties: false,
   properties: { lab: { type: 'integer', minimum: 1 }, q: { type: 'string', maxLength: 200 } }
 }
+export const SYSTEM_LIST_QUERY = {
+  type: 'object',
+  additionalProperties: false,
+  properties: {
+    minLabs: { type: 'integer', minimum: 1, maximum: 100, description: 'systems measured by at least this many labs (default 2)' },
+    q: { type: 'string', maxLength: 200, description: 'words of the donor, acceptor, bridge or medium' },
+    discrepant: { enum: ['true', 'false'], description: 'only systems with (true) or without (false) a flagged record' },
+    ...pagingProperties
+  }
+}

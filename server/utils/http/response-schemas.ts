@@ -51,6 +51,15 @@ const DATASET_SUMMARY = obj(
   }
 )
 
+const CONSENSUS = nullable(obj({
+  log10Rate: num, stderr: { type: 'number', minimum: 0 }, tau: { type: 'number', minimum: 0 }, q: { type: 'number', minimum: 0 },
+  i2: { type: 'number', minimum: 0, maximum: 1 }
+}))
+const SYSTEM = {
+  key: { type: 'string', pattern: '^[0-9a-f]{16}$' }, donor: str, acceptor: str, bridge: nullable(str), linkage: str, process: str,
+  medium: nullable(str), temperatureK: num, labCount: int, recordCount: int, consensus: CONSENSUS, discrepant: { type: 'boolean' }
+}
+
 export const RESPONSE_SCHEMAS: Record<string, Schema> = {
   'GET /api/v1/records': obj({
     total: int, page: int, pageSize: int, items: { type: 'array', items: RECORD_SUMMARY },
@@ -101,6 +110,17 @@ export const RESPONSE_SCHEMAS: Record<string, Schema> = {
   'GET /api/v1/solvents': obj({
     items: { type: 'array', items: obj({ id: int, name: str, permittivity: num, refractiveIndex: num, source: str }) }
   }),
-  'GET /api/v1/me': obj({ user: nullable({ type: 'object' }) })
+  'GET /api/v1/me': obj({ user: nullable({ type: 'object' }) }),
+  'GET /api/v1/systems': obj({ total: int, page: int, pageSize: int, items: { type: 'array', items: obj(SYSTEM) } }),
+  'GET /api/v1/systems/{key}': obj({
+    ...SYSTEM,
+    records: {
+      type: 'array',
+      items: obj({
+        id: int, labName: str, datasetId: int, doi: nullable(str), temperatureK: num, log10Rate: num,
+        log10RateSigma: nullable(num), sigmaImputed: { type: 'boolean' }, z: nullable(num), discrepant: { type: 'boolean' }
+      })
+    }
+  })
 }
 RESPONSE_SCHEMAS['GET /api/v1/datasets/{id}/versions/{n}'] = RESPONSE_SCHEMAS['GET /api/v1/datasets/{id}']!

@@ -1,0 +1,79 @@
+/**
+ * The systems measured by more than one record in the published archive, with their consensus. Computed from the
+ * current published records in one pass and kept until the search index changes (every publication, withdrawal or
+ * reindex moves its generation), so the routes answer from memory.
+ */
+import { createHash } from 'node:crypto'
+import { eq, sql } from 'drizzle-orm'
+import { schema, useDb } from '../storage/db'
+import { publishedRecordsWhere } from '../publishing/archive'
+import { useSearch } from '../search/search'
+import { groupSystems, log10Sigma, type MeasuredSystem } from '../../../shared/records/systems'
+
+const { rateRecords: records, datasetVersions: versions, datasets, labs } = schema
+let cached: { generation: number, systems: Promise<MeasuredSystem[]> } | undefined
+
+async function compute (): Promise<MeasuredSystem[]> {
+  const db = await useDb()
+  const rows = await db
+    .select({
+      id: records.id,
+      labId: labs.id,
+      labName: labs.name,
+      datasetId: datasets.id,
+      doi: versions.doi,
+      donorName: records.donorName,
+      acceptorName: records.acceptorName,
+      bridgeName: records.bridgeName,
+      donorKey: sql<string | null>`json_extract(${records.data}, '$.system.donor.inchiKey')`,
+      acceptorKey: sql<string | null>`json_extract(${records.data}, '$.system.acceptor.inchiKey')`,
+      bridgeKey: sql<string | null>`json_extract(${records.data}, '$.system.bridge.inchiKey')`,
+      linkage: records.linkage,
+      process: records.process,
+      medium: sql<string | null>`coalesce(${records.solvent}, json_extract(${records.data}, '$.medium.matrix'))`,
+      temperatureK: records.temperatureK,
+      rate: records.rate,
+      log10Rate: records.log10Rate,
+      uncertainty: sql<number | null>`json_extract(${records.data}, '$.rate.uncertainty')`
+    })
+    .from(records)
+    .innerJoin(versions, eq(records.versionId, versions.id))
+    .innerJoin(datasets, eq(versions.datasetId, datasets.id))
+    .innerJoin(labs, eq(labs.id, datasets.labId))
+    .where(publishedRecordsWhere())
+  const members = rows.map(r => ({
+    id: r.id,
+    labId: r.labId,
+    labName: r.labName,
+    datasetId: r.datasetId,
+    doi: r.doi,
+    donor: { name: r.donorName, inchiKey: r.donorKey },
+    acceptor: { name: r.acceptorName, inchiKey: r.acceptorKey },
+    bridge: r.bridgeName ? { name: r.bridgeName, inchiKey: r.bridgeKey } : null,
+    linkage: r.linkage,
+    process: r.process,
+    medium: r.medium,
+    temperatureK: r.temperatureK,
+    log10Rate: r.log10Rate,
+    sigma: log10Sigma(r.rate, r.uncertainty)
+  }))
+  const keyOf = (identity: string, lowestK: number) =>
+    createHash('sha256').update(`${identity}|${lowestK.toFixed(1)}`).digest('hex').slice(0, 16)
+  return groupSystems(members, keyOf).sort((a, b) => b.labCount - a.labCount || b.recordCount - a.recordCount || (a.key < b.key ? -1 : 1))
+}
+
+/** Every system of the published archive (one record or more), largest first. */
+export async function allSystems (): Promise<MeasuredSystem[]> {
+  const generation = (await useSearch()).index.generation
+  if (!cached || cached.generation !== generation) {
+    cached = { generation, systems: compute() }
+    cached.systems.catch(() => {
+      cached = undefined
+    })
+  }
+  return cached.systems
+}
+
+export async function systemByKey (key: string): Promise<MeasuredSystem | undefined> {
+  return (await allSystems()).find(s => s.key === key)
+}

@@ -1,0 +1,51 @@
+/**
+ * Systems measured by several labs: the demo's invented round-robin (three labs, four dyads, two replicates each, one
+ * lab 40× off on one dyad) must come out as four systems with consensus, exactly one of them flagged.
+ */
+import { afterAll, beforeAll, describe, expect, it } from 'vitest'
+import { api, startServer, type TestServer } from '../helpers/server'
+import { DISCREPANCY_Z, dersimonianLaird } from '../../shared/stats/consensus'
+
+let s: TestServer
+beforeAll(async () => { s = await startServer({ seed: true }) }, 90_000)
+afterAll(async () => { await s?.stop() })
+
+describe('systems', () => {
+  it('lists the round-robin dyads as systems of three labs, one with a discrepancy', async () => {
+    const r = await api(s.url, '/api/v1/systems?q=xylylene')
+    expect(r.status).toBe(200)
+    expect(r.data.total).toBe(4)
+    for (const sys of r.data.items) {
+      expect(sys).toMatchObject({ labCount: 3, recordCount: 6, bridge: 'xylylene', process: 'charge-separation', temperatureK: 298.2 })
+      expect(sys.consensus.i2).toBeGreaterThanOrEqual(0)
+    }
+    const flagged = r.data.items.filter((x: any) => x.discrepant)
+    expect(flagged.map((x: any) => [x.donor, x.medium])).toEqual([['H2P', 'benzonitrile']])
+    expect((await api(s.url, '/api/v1/systems?q=h2p+benzonitrile+xylylene')).data.total).toBe(1)
+    expect((await api(s.url, '/api/v1/systems?q=xylylene&discrepant=true')).data.total).toBe(1)
+  })
+  it('a system\'s records carry σ, z and the flag; the consensus is the DerSimonian–Laird mean of those records', async () => {
+    const list = (await api(s.url, '/api/v1/systems?q=h2p+benzonitrile+xylylene')).data.items
+    const d = (await api(s.url, `/api/v1/systems/${list[0].key}`)).data
+    expect(d.records).toHaveLength(6)
+    const off = d.records.filter((x: any) => x.discrepant)
+    expect(off.map((x: any) => x.labName)).toEqual(['Delacombe Bio-ET Lab', 'Delacombe Bio-ET Lab'])
+    for (const x of off) expect(Math.abs(x.z)).toBeGreaterThan(DISCREPANCY_Z)
+    const c = dersimonianLaird(d.records.map((x: any) => ({ y: x.log10Rate, sigma: x.log10RateSigma })))
+    expect(d.consensus.log10Rate).toBeCloseTo(c.mean, 12)
+    expect(d.consensus.tau).toBeCloseTo(c.tau, 12)
+    // about 40× (1.6 in log10) between the flagged lab and the others
+    const others = d.records.filter((x: any) => !x.discrepant).map((x: any) => x.log10Rate)
+    const mean = (xs: number[]) => xs.reduce((a, b) => a + b, 0) / xs.length
+    expect(mean(off.map((x: any) => x.log10Rate)) - mean(others)).toBeGreaterThan(1.3)
+    // each record links to its dataset, published with an identifier
+    for (const x of d.records) expect(x.doi).toMatch(/^10\.99999\//)
+  })
+  it('answers 404 for an unknown key and 422 for bad parameters, by name', async () => {
+    expect((await api(s.url, '/api/v1/systems/0000000000000000')).status).toBe(404)
+    expect((await api(s.url, '/api/v1/systems/not-a-key')).status).toBe(404)
+    const bad = await api(s.url, '/api/v1/systems?minLabs=0')
+    expect(bad.status).toBe(422)
+    expect(bad.data.data.issues[0].path).toBe('/minLabs')
+  })
+})
