@@ -18,6 +18,8 @@ export const SPECIES_SYNONYMS: Record<string, string> = {
   trisbipyridineruthenium: 'rubpy32+'
 }
 export const TEMPERATURE_WINDOW_K = 4
+/** |z| above this against the published consensus is a warning at review (the same rule as between labs). */
+export const DISCREPANCY_Z_FOR_REVIEW = DISCREPANCY_Z
 
 export function normaliseName (name: string | null | undefined): string {
   const n = (name ?? '').normalize('NFKC').toLowerCase().replace(/[^\p{L}\p{N}+]/gu, '')
@@ -54,6 +56,8 @@ export interface SystemRecord extends SystemMember {
 }
 export interface MeasuredSystem {
   key: string
+  /** the identity string (species keys, linkage, process, medium) the key was made from */
+  identity: string
   donor: string
   acceptor: string
   bridge: string | null
@@ -133,6 +137,7 @@ function system (key: string, group: SystemMember[], datasetMedian: Map<number, 
   const temps = group.map(m => m.temperatureK)
   return {
     key,
+    identity: identityOf(first),
     donor: first.donor.name,
     acceptor: first.acceptor.name,
     bridge: first.bridge?.name ?? null,
@@ -148,4 +153,19 @@ function system (key: string, group: SystemMember[], datasetMedian: Map<number, 
     discrepant: records.some(r => r.discrepant),
     records
   }
+}
+
+/**
+ * How a new measurement (a submitted record) sits against a published system: same identity, temperature within ±2 K
+ * of the system's middle. z is against the random-effects consensus of the published records (all of them, whatever
+ * their number of labs), as for a new lab's value.
+ */
+export function zAgainst (sys: MeasuredSystem, m: Pick<SystemMember, 'log10Rate' | 'sigma'>): { z: number, mean: number } | null {
+  const usable = sys.records.filter(r => r.sigmaUsed !== null)
+  if (!usable.length || m.sigma === null) return null
+  const c = dersimonianLaird(usable.map(r => ({ y: r.log10Rate, sigma: r.sigmaUsed! })))
+  return { z: (m.log10Rate - c.mean) / Math.sqrt(m.sigma * m.sigma + c.tau2 + c.stderr * c.stderr), mean: c.mean }
+}
+export function sameSystem (sys: MeasuredSystem, m: SystemMember): boolean {
+  return sys.identity === identityOf(m) && Math.abs(m.temperatureK - sys.temperatureK) <= TEMPERATURE_WINDOW_K / 2
 }

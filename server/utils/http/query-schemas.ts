@@ -46,6 +46,7 @@ export const SYSTEM_LIST_QUERY = {
     minLabs: { type: 'integer', minimum: 1, maximum: 100, description: 'systems measured by at least this many labs (default 2)' },
     q: { type: 'string', maxLength: 200, description: 'words of the donor, acceptor, bridge or medium' },
     discrepant: { enum: ['true', 'false'], description: 'only systems with (true) or without (false) a flagged record' },
+    ids: { type: 'string', pattern: '^\\d+(,\\d+){0,4999}$', description: 'comma-separated record ids: the systems holding any of them' },
     ...pagingProperties
   }
 }

@@ -1,4 +1,5 @@
 /** The curator queue, and one submission as the curator sees it (report, diff, changes since a return, history). */
+import { memberOf, systemMatches } from '../systems/systems'
 import { createHash } from 'node:crypto'
 import { and, desc, eq, inArray, ne, sql } from 'drizzle-orm'
 import { useDb, schema } from '../storage/db'
@@ -160,9 +161,14 @@ export async function reviewView (viewer: Viewer, datasetId: number) {
       removed: [...snap.keys()].filter(k => !recs.some(r => r.recordKey === k)).length
     }
   }
+  const matches = await systemMatches(
+    recs.map(r => memberOf(r, { labId: lab!.id, labName: lab!.name, datasetId }))
+  )
   return {
     datasetId,
     ownLab: viewer.labIds.includes(dataset.labId),
+    /** submitted records that measure a published system, with the record's z against its consensus */
+    systemMatches: matches,
     lab: { id: lab!.id, name: lab!.name },
     version: {
       id: version.id,

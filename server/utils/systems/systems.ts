@@ -8,7 +8,10 @@ import { eq, sql } from 'drizzle-orm'
 import { schema, useDb } from '../storage/db'
 import { publishedRecordsWhere } from '../publishing/archive'
 import { useSearch } from '../search/search'
-import { groupSystems, log10Sigma, type MeasuredSystem } from '../../../shared/records/systems'
+import {
+  DISCREPANCY_Z_FOR_REVIEW, groupSystems, log10Sigma, sameSystem, zAgainst, type MeasuredSystem, type SystemMember
+} from '../../../shared/records/systems'
+import type { RateRecordV1 } from '../../../shared/records/types'
 
 const { rateRecords: records, datasetVersions: versions, datasets, labs } = schema
 let cached: { generation: number, systems: Promise<MeasuredSystem[]> } | undefined
@@ -76,4 +79,56 @@ export async function allSystems (): Promise<MeasuredSystem[]> {
 
 export async function systemByKey (key: string): Promise<MeasuredSystem | undefined> {
   return (await allSystems()).find(s => s.key === key)
+}
+
+/** The system a published record belongs to, when other records (or labs) measured it too. */
+export async function systemOfRecord (id: number): Promise<MeasuredSystem | undefined> {
+  return (await allSystems()).find(s => s.recordCount > 1 && s.records.some(r => r.id === id))
+}
+
+/** A stored record as a member of a system (lab and dataset given by the caller). */
+export function memberOf (
+  r: { id: number, data: RateRecordV1, temperatureK: number, rate: number, log10Rate: number, solvent: string | null },
+  where: { labId: number, labName: string, datasetId: number }
+): SystemMember {
+  const d = r.data
+  return {
+    id: r.id,
+    ...where,
+    doi: null,
+    donor: { name: d.system.donor.name, inchiKey: d.system.donor.inchiKey },
+    acceptor: { name: d.system.acceptor.name, inchiKey: d.system.acceptor.inchiKey },
+    bridge: d.system.bridge ? { name: d.system.bridge.name, inchiKey: d.system.bridge.inchiKey } : null,
+    linkage: d.system.linkage,
+    process: d.process,
+    medium: r.solvent ?? d.medium.matrix ?? null,
+    temperatureK: r.temperatureK,
+    log10Rate: r.log10Rate,
+    sigma: log10Sigma(r.rate, d.rate.uncertainty)
+  }
+}
+
+/**
+ * For the review desk: each submitted record that matches a published system of another dataset, with the system's
+ * consensus and the record's z against it; |z| > 3 is a discrepancy the curator sees before accepting.
+ */
+export async function systemMatches (members: SystemMember[]) {
+  const systems = (await allSystems()).filter(s => s.records.length)
+  const out = []
+  for (const m of members) {
+    const sys = systems.find(s => sameSystem(s, m) && s.records.some(r => r.datasetId !== m.datasetId))
+    if (!sys) continue
+    const against = zAgainst({ ...sys, records: sys.records.filter(r => r.datasetId !== m.datasetId) }, m)
+    out.push({
+      recordId: m.id,
+      key: sys.key,
+      labCount: sys.labCount,
+      recordCount: sys.recordCount,
+      publishedLog10Rate: against?.mean ?? null,
+      log10Rate: m.log10Rate,
+      z: against?.z ?? null,
+      discrepant: against ? Math.abs(against.z) > DISCREPANCY_Z_FOR_REVIEW : false
+    })
+  }
+  return out
 }

@@ -13,9 +13,10 @@ export default defineEventHandler(async (event) => {
   if (!/^[0-9a-f]{16}$/.test(key)) throw httpError(404, 'No such system', [{ path: '/key', message: 'is not a system key' }])
   const s = await systemByKey(key)
   if (!s) throw httpError(404, 'No such system (the records may have changed since the key was made)')
+  const { identity: _i, ...system } = s
   return {
-    ...s,
-    records: s.records.map(r => ({
+    ...system,
+    records: system.records.map(r => ({
       id: r.id,
       labName: r.labName,
       datasetId: r.datasetId,

@@ -18,7 +18,9 @@ defineRouteMeta({
 })
 
 export default defineEventHandler(async (event) => {
-  const q = queryValidated<{ minLabs?: number, q?: string, discrepant?: 'true' | 'false', page?: number, pageSize?: number }>(
+  const q = queryValidated<{
+    minLabs?: number, q?: string, discrepant?: 'true' | 'false', ids?: string, page?: number, pageSize?: number
+  }>(
     event,
     SYSTEM_LIST_QUERY,
     coerceNumbers(['minLabs', 'page', 'pageSize'])
@@ -27,8 +29,10 @@ export default defineEventHandler(async (event) => {
   const words = (q.q ?? '').split(/\s+/).map(normaliseName).filter(Boolean)
   const page = q.page ?? 1
   const pageSize = q.pageSize ?? 50
+  const ids = q.ids ? new Set(q.ids.split(',').map(Number)) : null
   const hits = (await allSystems()).filter((s) => {
     if (s.labCount < minLabs) return false
+    if (ids && !s.records.some(r => ids.has(r.id))) return false
     if (q.discrepant && String(s.discrepant) !== q.discrepant) return false
     const text = normaliseName([s.donor, s.acceptor, s.bridge, s.medium].join(' '))
     return words.every(w => text.includes(w))
@@ -37,6 +41,6 @@ export default defineEventHandler(async (event) => {
     total: hits.length,
     page,
     pageSize,
-    items: hits.slice((page - 1) * pageSize, page * pageSize).map(({ records: _r, ...s }) => s)
+    items: hits.slice((page - 1) * pageSize, page * pageSize).map(({ records: _r, identity: _i, ...s }) => s)
   }
 })

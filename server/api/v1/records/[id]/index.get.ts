@@ -2,13 +2,15 @@ import { getViewer } from '../../../../utils/accounts/auth'
 import { getRecord } from '../../../../utils/publishing/archive'
 import { intParam } from '../../../../utils/http/params'
 import { structuresFor } from '../../../../utils/search/structures'
+import { systemOfRecord } from '../../../../utils/systems/systems'
 
 defineRouteMeta({
   openAPI: {
     tags: ['records'],
     summary:
       'One record in the open format, with its dataset, provenance and the structures of its species (canonical '
-      + 'SMILES, InChI, InChIKey, SVG depiction by RDKit) where it gives SMILES'
+      + 'SMILES, InChI, InChIKey, SVG depiction by RDKit) where it gives SMILES, and the system it measures when '
+      + 'other records measured the same one'
   }
 })
 
@@ -34,6 +36,8 @@ export default defineEventHandler(async (event) => {
       ]
     })
   )
+  const sys = version.state === 'published' ? await systemOfRecord(record.id) : undefined
+  const mine = sys?.records.find(r => r.id === record.id)
   return {
     id: record.id,
     position: record.position,
@@ -52,6 +56,13 @@ export default defineEventHandler(async (event) => {
       license: version.license,
       labName,
       isDemo: dataset.isDemo
-    }
+    },
+    // the system this record measures, when other published records measured it too
+    system: sys
+      ? {
+          key: sys.key, labCount: sys.labCount, recordCount: sys.recordCount, consensus: sys.consensus,
+          z: mine?.z ?? null, discrepant: mine?.discrepant ?? false
+        }
+      : null
   }
 })
