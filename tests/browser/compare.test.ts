@@ -16,6 +16,8 @@ describe('compare', () => {
     await page.click('[data-test=add-to-compare]')
     await page.waitForURL(/\/compare\?/)
     await page.waitForSelector('[data-test=rate-plot] svg circle')
+    // the selection holds round-robin dyads: Compare points to their shared systems
+    await page.waitForSelector('[data-test=compare-systems] a[href^="/systems/"]')
     const [resp] = await Promise.all([page.waitForResponse(r => r.url().endsWith('/api/v1/model/fit')), page.click('[data-test=compare-fit]')])
     const fit = await resp.json()
     await page.waitForSelector('[data-test=compare-fit-result]')

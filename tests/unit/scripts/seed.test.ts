@@ -4,6 +4,7 @@ import { join } from 'node:path'
 import { afterAll, describe, expect, it } from 'vitest'
 import { createClient } from '@libsql/client'
 import { seed } from '../../../scripts/seed'
+import { DATASETS } from '../../../scripts/lib/scenario'
 
 const dir = mkdtempSync(join(tmpdir(), 'crosspoint-seed-'))
 afterAll(() => rmSync(dir, { recursive: true, force: true }))
@@ -15,7 +16,7 @@ describe('demo seed', () => {
     const second = await seed(url)
     expect(second).toEqual(first)
     expect(first.lab).toBe(3)
-    expect(first.dataset).toBe(12)
+    expect(first.dataset).toBe(DATASETS.length)
     expect(first.rate_record).toBeGreaterThan(2000)
     const c = createClient({ url })
     const states = (await c.execute('select state, count(*) n from dataset_version group by state')).rows.map(r => r.state)
