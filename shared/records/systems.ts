@@ -3,8 +3,8 @@
  * and medium (solvent or matrix), at the same temperature within ±2 K. A species is identified by its InChIKey where
  * the record gives one, otherwise by its normalised name: Unicode-normalised, lower case, without spaces and
  * punctuation other than charge signs ("N,N-Dimethylaniline" = "n,n-dimethylaniline" = "N,N dimethylaniline"), after
- * the synonyms below. Temperatures are grouped from the lowest up: a group takes every record within 4 K of its first,
- * so all of its members lie within ±2 K of the group's middle.
+ * the synonyms below and those curators add (stored in the database). Temperatures are grouped from the lowest up:
+ * a group takes every record within 4 K of its first, so all of its members lie within ±2 K of the group's middle.
  */
 import { DISCREPANCY_Z, dersimonianLaird, leaveGroupOutZ, type Consensus } from '../stats/consensus'
 
@@ -21,13 +21,20 @@ export const TEMPERATURE_WINDOW_K = 4
 /** |z| above this against the published consensus is a warning at review (the same rule as between labs). */
 export const DISCREPANCY_Z_FOR_REVIEW = DISCREPANCY_Z
 
-export function normaliseName (name: string | null | undefined): string {
-  const n = (name ?? '').normalize('NFKC').toLowerCase().replace(/[^\p{L}\p{N}+]/gu, '')
-  return SPECIES_SYNONYMS[n] ?? n
+/** Curators' synonyms (normalised alias → normalised name), added to the built-in ones. */
+export type Synonyms = Readonly<Record<string, string>>
+
+/** A name without case, spaces and punctuation (charge signs kept), before any synonym. */
+export function bareName (name: string | null | undefined): string {
+  return (name ?? '').normalize('NFKC').toLowerCase().replace(/[^\p{L}\p{N}+]/gu, '')
 }
-export function speciesKey (s: { name?: string | null, inchiKey?: string | null } | null | undefined): string {
+export function normaliseName (name: string | null | undefined, synonyms: Synonyms = {}): string {
+  const n = bareName(name)
+  return synonyms[n] ?? SPECIES_SYNONYMS[n] ?? n
+}
+export function speciesKey (s: { name?: string | null, inchiKey?: string | null } | null | undefined, synonyms: Synonyms = {}): string {
   if (!s) return ''
-  return s.inchiKey ? `ik:${s.inchiKey.toUpperCase()}` : `n:${normaliseName(s.name)}`
+  return s.inchiKey ? `ik:${s.inchiKey.toUpperCase()}` : `n:${normaliseName(s.name, synonyms)}`
 }
 
 export interface SystemMember {
@@ -72,8 +79,11 @@ export interface MeasuredSystem {
   records: SystemRecord[]
 }
 
-export function identityOf (m: SystemMember): string {
-  return [speciesKey(m.donor), speciesKey(m.acceptor), speciesKey(m.bridge), m.linkage, m.process, normaliseName(m.medium)].join('|')
+export function identityOf (m: SystemMember, synonyms: Synonyms = {}): string {
+  return [
+    speciesKey(m.donor, synonyms), speciesKey(m.acceptor, synonyms), speciesKey(m.bridge, synonyms), m.linkage, m.process,
+    normaliseName(m.medium, synonyms)
+  ].join('|')
 }
 
 /** σ of log10 k from a rate and its 1σ uncertainty (first-order propagation: σ / (k ln 10)). */
@@ -90,7 +100,8 @@ const median = (xs: number[]) => {
 export function groupSystems (
   members: readonly SystemMember[],
   /** a short stable key from the identity and the group's lowest temperature (the server hashes them) */
-  keyOf: (identity: string, lowestK: number) => string
+  keyOf: (identity: string, lowestK: number) => string,
+  synonyms: Synonyms = {}
 ): MeasuredSystem[] {
   // each dataset's median σ stands in for records that give none
   const perDataset = new Map<number, number[]>()
@@ -100,7 +111,7 @@ export function groupSystems (
   const datasetMedian = new Map([...perDataset].map(([d, xs]) => [d, median(xs)]))
   const byIdentity = new Map<string, SystemMember[]>()
   for (const m of members) {
-    const k = identityOf(m)
+    const k = identityOf(m, synonyms)
     ;(byIdentity.get(k) ?? byIdentity.set(k, []).get(k)!).push(m)
   }
   const out: MeasuredSystem[] = []
@@ -109,14 +120,14 @@ export function groupSystems (
     for (let i = 0; i < list.length;) {
       let j = i
       while (j < list.length && list[j]!.temperatureK <= list[i]!.temperatureK + TEMPERATURE_WINDOW_K) j++
-      out.push(system(keyOf(identity, list[i]!.temperatureK), list.slice(i, j), datasetMedian))
+      out.push(system(identity, keyOf(identity, list[i]!.temperatureK), list.slice(i, j), datasetMedian))
       i = j
     }
   }
   return out
 }
 
-function system (key: string, group: SystemMember[], datasetMedian: Map<number, number>): MeasuredSystem {
+function system (identity: string, key: string, group: SystemMember[], datasetMedian: Map<number, number>): MeasuredSystem {
   const first = group[0]!
   const records: SystemRecord[] = group.map((m) => {
     const imputed = m.sigma === null ? datasetMedian.get(m.datasetId) ?? null : null
@@ -137,7 +148,7 @@ function system (key: string, group: SystemMember[], datasetMedian: Map<number, 
   const temps = group.map(m => m.temperatureK)
   return {
     key,
-    identity: identityOf(first),
+    identity,
     donor: first.donor.name,
     acceptor: first.acceptor.name,
     bridge: first.bridge?.name ?? null,
@@ -166,6 +177,6 @@ export function zAgainst (sys: MeasuredSystem, m: Pick<SystemMember, 'log10Rate'
   const c = dersimonianLaird(usable.map(r => ({ y: r.log10Rate, sigma: r.sigmaUsed! })))
   return { z: (m.log10Rate - c.mean) / Math.sqrt(m.sigma * m.sigma + c.tau2 + c.stderr * c.stderr), mean: c.mean }
 }
-export function sameSystem (sys: MeasuredSystem, m: SystemMember): boolean {
-  return sys.identity === identityOf(m) && Math.abs(m.temperatureK - sys.temperatureK) <= TEMPERATURE_WINDOW_K / 2
+export function sameSystem (sys: MeasuredSystem, m: SystemMember, synonyms: Synonyms = {}): boolean {
+  return sys.identity === identityOf(m, synonyms) && Math.abs(m.temperatureK - sys.temperatureK) <= TEMPERATURE_WINDOW_K / 2
 }

@@ -69,6 +69,10 @@ const CASES: Case[] = [
   // the solvent table is the admins' (the README's permission table)
   { name: 'edit a solvent', method: 'PATCH', path: () => `/api/v1/solvents/${ids.solvent}`, body: () => ({ source: 'handbook value, from memory' }),
     expect: { ...all(403), visitor: 401, admin: 200 } },
+  { name: 'shared systems', method: 'GET', path: () => '/api/v1/systems', expect: all(200) },
+  { name: 'species synonyms', method: 'GET', path: () => '/api/v1/species-synonyms', expect: all(200) },
+  { name: 'add a species synonym', method: 'POST', path: () => '/api/v1/species-synonyms', body: r => ({ alias: `alias for ${r}`, canonical: 'ZnP' }),
+    expect: { visitor: 401, contributorA: 403, contributorB: 403, curatorOfA: 201, curatorElsewhere: 201, admin: 201, tokenOfA: 403 } },
   { name: 'add a solvent', method: 'POST', path: () => '/api/v1/solvents', body: r => ({ name: `test solvent ${r}`, permittivity: 10, refractiveIndex: 1.4, source: 'invented for a test' }),
     expect: { ...all(403), visitor: 401, admin: 201 } },
   { name: 'derivation report', method: 'GET', path: () => '/api/v1/review/derivations', expect: { ...all(403), visitor: 401, curatorOfA: 200, curatorElsewhere: 200, admin: 200 } },

@@ -3,7 +3,7 @@
  * lab 40× off on one dyad) must come out as four systems with consensus, exactly one of them flagged.
  */
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
-import { api, startServer, type TestServer } from '../helpers/server'
+import { api, DEMO, signIn, startServer, type TestServer } from '../helpers/server'
 import { DISCREPANCY_Z, dersimonianLaird } from '../../shared/stats/consensus'
 
 let s: TestServer
@@ -47,5 +47,33 @@ describe('systems', () => {
     const bad = await api(s.url, '/api/v1/systems?minLabs=0')
     expect(bad.status).toBe(422)
     expect(bad.data.data.issues[0].path).toBe('/minLabs')
+  })
+  it('a curator\'s synonym makes a differently named submission match a published system, and its z shows on review', async () => {
+    const a = await signIn(s.url, DEMO.contributorA)
+    const curator = await signIn(s.url, DEMO.curatorB)
+    const labA = (await api(s.url, '/api/v1/me', { headers: { cookie: a } })).data.user.labIds[0]
+    const id = (await api(s.url, '/api/v1/datasets', { method: 'POST', headers: { cookie: a }, json: { labId: labA, title: 'Renamed dyad (demo)' } })).data.id
+    const sys = (await api(s.url, '/api/v1/systems?q=h2p+toluene+xylylene')).data.items[0]
+    const ref = (await api(s.url, `/api/v1/systems/${sys.key}`)).data.records[0]
+    const record = (await api(s.url, `/api/v1/records/${ref.id}`)).data.data
+    record.system.donor.name = 'H₂-porphyrin (free base)' // what this lab calls H2P
+    expect((await api(s.url, `/api/v1/datasets/${id}/records`, { method: 'POST', headers: { cookie: a }, json: { records: [record] } })).status).toBe(201)
+    expect((await api(s.url, `/api/v1/datasets/${id}/submit`, { method: 'POST', headers: { cookie: a } })).status).toBe(200)
+    const before = (await api(s.url, `/api/v1/review/${id}`, { headers: { cookie: curator } })).data.systemMatches
+    expect(before).toEqual([])
+    // contributors may not declare synonyms; a curator may, and the name is stored normalised
+    expect((await api(s.url, '/api/v1/species-synonyms', { method: 'POST', headers: { cookie: a }, json: { alias: 'H₂-porphyrin (free base)', canonical: 'H2P' } })).status).toBe(403)
+    const add = await api(s.url, '/api/v1/species-synonyms', { method: 'POST', headers: { cookie: curator }, json: { alias: 'H₂-porphyrin (free base)', canonical: 'H2P' } })
+    expect(add.status).toBe(201)
+    expect(add.data).toMatchObject({ alias: 'h2porphyrinfreebase', canonical: 'h2p' }) // NFKC turns ₂ into 2
+    expect((await api(s.url, '/api/v1/species-synonyms', { method: 'POST', headers: { cookie: curator }, json: { alias: 'H2-porphyrin, free base', canonical: 'ZnP' } })).status).toBe(409)
+    expect((await api(s.url, '/api/v1/species-synonyms', { method: 'POST', headers: { cookie: curator }, json: { alias: 'N,N-DMA', canonical: 'n n dma' } })).status).toBe(422)
+    const after = (await api(s.url, `/api/v1/review/${id}`, { headers: { cookie: curator } })).data.systemMatches
+    expect(after).toHaveLength(1)
+    expect(after[0]).toMatchObject({ key: sys.key, discrepant: false })
+    expect(Math.abs(after[0].z)).toBeLessThan(3) // the same value, so close to the consensus
+    // removing it undoes the match
+    await api(s.url, `/api/v1/species-synonyms/${add.data.id}`, { method: 'DELETE', headers: { cookie: curator } })
+    expect((await api(s.url, `/api/v1/review/${id}`, { headers: { cookie: curator } })).data.systemMatches).toEqual([])
   })
 })

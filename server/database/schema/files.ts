@@ -46,6 +46,19 @@ export const solvents = sqliteTable(
   t => [uniqueIndex('solvent_name_unique').on(t.name)]
 )
 
+/** Other names of species that curators declare the same (system identity); both sides stored normalised. */
+export const speciesSynonyms = sqliteTable(
+  'species_synonym',
+  {
+    id: integer('id').primaryKey({ autoIncrement: true }),
+    alias: text('alias').notNull(),
+    canonical: text('canonical').notNull(),
+    createdBy: text('created_by').references(() => users.id),
+    ...timestamps
+  },
+  t => [uniqueIndex('species_synonym_alias_unique').on(t.alias)]
+)
+
 export const mailOutbox = sqliteTable(
   'mail_outbox',
   {

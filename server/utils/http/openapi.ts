@@ -11,6 +11,7 @@ import {
   BUNDLE_QUERY, CITATION_QUERY, DATASET_LIST_QUERY, REVIEW_QUEUE_QUERY, SIMILAR_QUERY, SYSTEM_LIST_QUERY
 } from './query-schemas'
 import { PROBLEM_SCHEMA, RESPONSE_SCHEMAS } from './response-schemas'
+import { SYNONYM_BODY } from '../systems/systems'
 
 type Schema = { type?: string, required?: string[], properties?: Record<string, Record<string, unknown>> }
 interface Parameter { in: string, name: string, required?: boolean, schema?: unknown, description?: string }
@@ -41,7 +42,8 @@ const QUERIES: Record<string, Schema> = {
 }
 const BODIES: Record<string, unknown> = {
   'POST /api/v1/model/curve': curveBodySchema,
-  'POST /api/v1/model/fit': fitBodySchema
+  'POST /api/v1/model/fit': fitBodySchema,
+  'POST /api/v1/species-synonyms': SYNONYM_BODY
 }
 /** Operations anyone may call; every other one needs a session cookie or an API token (else 401). */
 export const PUBLIC_OPERATIONS = new Set([
@@ -49,7 +51,7 @@ export const PUBLIC_OPERATIONS = new Set([
   'GET /api/v1/datasets', 'GET /api/v1/datasets/{id}', 'GET /api/v1/datasets/{id}/versions/{n}',
   'GET /api/v1/datasets/{id}/bundle', 'GET /api/v1/datasets/{id}/citation', 'GET /api/v1/labs', 'GET /api/v1/labs/{id}',
   'GET /api/v1/health', 'GET /api/v1/overview', 'GET /api/v1/openapi.json', 'GET /api/v1/templates/{file}',
-  'GET /api/v1/solvents', 'GET /api/v1/me', 'GET /api/v1/systems', 'GET /api/v1/systems/{key}',
+  'GET /api/v1/solvents', 'GET /api/v1/me', 'GET /api/v1/systems', 'GET /api/v1/systems/{key}', 'GET /api/v1/species-synonyms',
   'POST /api/v1/bundles', 'POST /api/v1/model/curve', 'POST /api/v1/model/fit',
   'POST /api/v1/account/signup', 'POST /api/v1/account/login-link', 'POST /api/v1/account/password-reset',
   'POST /api/v1/account/password-reset/confirm', 'POST /api/v1/account/verify'

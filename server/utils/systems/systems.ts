@@ -9,12 +9,30 @@ import { schema, useDb } from '../storage/db'
 import { publishedRecordsWhere } from '../publishing/archive'
 import { useSearch } from '../search/search'
 import {
-  DISCREPANCY_Z_FOR_REVIEW, groupSystems, log10Sigma, sameSystem, zAgainst, type MeasuredSystem, type SystemMember
+  DISCREPANCY_Z_FOR_REVIEW, groupSystems, log10Sigma, sameSystem, zAgainst, type MeasuredSystem, type Synonyms,
+  type SystemMember
 } from '../../../shared/records/systems'
 import type { RateRecordV1 } from '../../../shared/records/types'
 
 const { rateRecords: records, datasetVersions: versions, datasets, labs } = schema
 let cached: { generation: number, systems: Promise<MeasuredSystem[]> } | undefined
+let synonymCache: Promise<Synonyms> | undefined
+
+/** Curators' species synonyms, normalised alias → normalised name. */
+export function curatorSynonyms (): Promise<Synonyms> {
+  synonymCache ??= useDb()
+    .then(db => db.select().from(schema.speciesSynonyms))
+    .then(rows => Object.fromEntries(rows.map(r => [r.alias, r.canonical])))
+  synonymCache.catch(() => {
+    synonymCache = undefined
+  })
+  return synonymCache
+}
+/** After a synonym is added or removed: systems are grouped again on the next request. */
+export function forgetSystems (): void {
+  cached = undefined
+  synonymCache = undefined
+}
 
 async function compute (): Promise<MeasuredSystem[]> {
   const db = await useDb()
@@ -62,7 +80,8 @@ async function compute (): Promise<MeasuredSystem[]> {
   }))
   const keyOf = (identity: string, lowestK: number) =>
     createHash('sha256').update(`${identity}|${lowestK.toFixed(1)}`).digest('hex').slice(0, 16)
-  return groupSystems(members, keyOf).sort((a, b) => b.labCount - a.labCount || b.recordCount - a.recordCount || (a.key < b.key ? -1 : 1))
+  return groupSystems(members, keyOf, await curatorSynonyms())
+    .sort((a, b) => b.labCount - a.labCount || b.recordCount - a.recordCount || (a.key < b.key ? -1 : 1))
 }
 
 /** Every system of the published archive (one record or more), largest first. */
@@ -114,9 +133,10 @@ export function memberOf (
  */
 export async function systemMatches (members: SystemMember[]) {
   const systems = (await allSystems()).filter(s => s.records.length)
+  const synonyms = await curatorSynonyms()
   const out = []
   for (const m of members) {
-    const sys = systems.find(s => sameSystem(s, m) && s.records.some(r => r.datasetId !== m.datasetId))
+    const sys = systems.find(s => sameSystem(s, m, synonyms) && s.records.some(r => r.datasetId !== m.datasetId))
     if (!sys) continue
     const against = zAgainst({ ...sys, records: sys.records.filter(r => r.datasetId !== m.datasetId) }, m)
     out.push({
@@ -131,4 +151,15 @@ export async function systemMatches (members: SystemMember[]) {
     })
   }
   return out
+}
+
+/** The body of POST /api/v1/species-synonyms (also its OpenAPI request schema). */
+export const SYNONYM_BODY = {
+  type: 'object',
+  additionalProperties: false,
+  required: ['alias', 'canonical'],
+  properties: {
+    alias: { type: 'string', minLength: 1, maxLength: 120, description: 'the other name, as records write it' },
+    canonical: { type: 'string', minLength: 1, maxLength: 120, description: 'the name it stands for' }
+  }
 }

@@ -1,7 +1,7 @@
 import { coerceNumbers, queryValidated } from '../../../utils/http/validation'
 import { SYSTEM_LIST_QUERY } from '../../../utils/http/query-schemas'
 import { allSystems } from '../../../utils/systems/systems'
-import { normaliseName } from '../../../../shared/records/systems'
+import { bareName } from '../../../../shared/records/systems'
 
 defineRouteMeta({
   openAPI: {
@@ -26,7 +26,7 @@ export default defineEventHandler(async (event) => {
     coerceNumbers(['minLabs', 'page', 'pageSize'])
   )
   const minLabs = q.minLabs ?? 2
-  const words = (q.q ?? '').split(/\s+/).map(normaliseName).filter(Boolean)
+  const words = (q.q ?? '').split(/\s+/).map(w => bareName(w)).filter(Boolean)
   const page = q.page ?? 1
   const pageSize = q.pageSize ?? 50
   const ids = q.ids ? new Set(q.ids.split(',').map(Number)) : null
@@ -34,7 +34,7 @@ export default defineEventHandler(async (event) => {
     if (s.labCount < minLabs) return false
     if (ids && !s.records.some(r => ids.has(r.id))) return false
     if (q.discrepant && String(s.discrepant) !== q.discrepant) return false
-    const text = normaliseName([s.donor, s.acceptor, s.bridge, s.medium].join(' '))
+    const text = bareName([s.donor, s.acceptor, s.bridge, s.medium].join(' '))
     return words.every(w => text.includes(w))
   })
   return {
