@@ -76,4 +76,26 @@ describe('systems', () => {
     await api(s.url, `/api/v1/species-synonyms/${add.data.id}`, { method: 'DELETE', headers: { cookie: curator } })
     expect((await api(s.url, `/api/v1/review/${id}`, { headers: { cookie: curator } })).data.systemMatches).toEqual([])
   })
+  it('a structure string identifies the species: same SMILES under another name is the same system', async () => {
+    const a = await signIn(s.url, DEMO.contributorA)
+    const curator = await signIn(s.url, DEMO.curatorB)
+    // a published record of another lab whose donor gives SMILES (the demo's ordinary molecules do)
+    const hits = (await api(s.url, '/api/v1/records?q=triethylamine&pageSize=50')).data.items.filter((r: any) => r.labName !== 'Faulkwood Ultrafast Lab')
+    expect(hits.length).toBeGreaterThan(0)
+    const record = (await api(s.url, `/api/v1/records/${hits[0].id}`)).data.data
+    expect(record.system.donor.smiles).toBeTruthy()
+    record.system.donor.name = 'TEA (our stock)' // no name rule would merge this
+    const labA = (await api(s.url, '/api/v1/me', { headers: { cookie: a } })).data.user.labIds[0]
+    const id = (await api(s.url, '/api/v1/datasets', { method: 'POST', headers: { cookie: a }, json: { labId: labA, title: 'Same amine, other name (demo)' } })).data.id
+    expect((await api(s.url, `/api/v1/datasets/${id}/records`, { method: 'POST', headers: { cookie: a }, json: { records: [record] } })).status).toBe(201)
+    expect((await api(s.url, `/api/v1/datasets/${id}/submit`, { method: 'POST', headers: { cookie: a } })).status).toBe(200)
+    const matches = (await api(s.url, `/api/v1/review/${id}`, { headers: { cookie: curator } })).data.systemMatches
+    expect(matches).toHaveLength(1)
+    // without the SMILES only the name is left, and it matches nothing
+    const id2 = (await api(s.url, '/api/v1/datasets', { method: 'POST', headers: { cookie: a }, json: { labId: labA, title: 'Same amine, no structure (demo)' } })).data.id
+    delete record.system.donor.smiles
+    await api(s.url, `/api/v1/datasets/${id2}/records`, { method: 'POST', headers: { cookie: a }, json: { records: [record] } })
+    await api(s.url, `/api/v1/datasets/${id2}/submit`, { method: 'POST', headers: { cookie: a } })
+    expect((await api(s.url, `/api/v1/review/${id2}`, { headers: { cookie: curator } })).data.systemMatches).toEqual([])
+  })
 })

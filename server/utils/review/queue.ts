@@ -1,5 +1,5 @@
 /** The curator queue, and one submission as the curator sees it (report, diff, changes since a return, history). */
-import { memberOf, systemMatches } from '../systems/systems'
+import { inchiKeysOf, memberOf, systemMatches } from '../systems/systems'
 import { createHash } from 'node:crypto'
 import { and, desc, eq, inArray, ne, sql } from 'drizzle-orm'
 import { useDb, schema } from '../storage/db'
@@ -161,8 +161,9 @@ export async function reviewView (viewer: Viewer, datasetId: number) {
       removed: [...snap.keys()].filter(k => !recs.some(r => r.recordKey === k)).length
     }
   }
+  const keys = await inchiKeysOf(recs.map(r => r.data))
   const matches = await systemMatches(
-    recs.map(r => memberOf(r, { labId: lab!.id, labName: lab!.name, datasetId }))
+    recs.map(r => memberOf(r, { labId: lab!.id, labName: lab!.name, datasetId }, keys))
   )
   return {
     datasetId,

@@ -8,6 +8,7 @@ import { eq, sql } from 'drizzle-orm'
 import { schema, useDb } from '../storage/db'
 import { publishedRecordsWhere } from '../publishing/archive'
 import { useSearch } from '../search/search'
+import { structuresFor } from '../search/structures'
 import {
   DISCREPANCY_Z_FOR_REVIEW, groupSystems, log10Sigma, sameSystem, zAgainst, type MeasuredSystem, type Synonyms,
   type SystemMember
@@ -34,6 +35,10 @@ export function forgetSystems (): void {
   synonymCache = undefined
 }
 
+const speciesInchiKey = (role: 'donor' | 'acceptor' | 'bridge') =>
+  sql<string | null>`coalesce(json_extract(${records.data}, ${`$.system.${role}.inchiKey`}),
+    (select st.inchi_key from structure st where st.smiles = json_extract(${records.data}, ${`$.system.${role}.smiles`})))`
+
 async function compute (): Promise<MeasuredSystem[]> {
   const db = await useDb()
   const rows = await db
@@ -46,9 +51,10 @@ async function compute (): Promise<MeasuredSystem[]> {
       donorName: records.donorName,
       acceptorName: records.acceptorName,
       bridgeName: records.bridgeName,
-      donorKey: sql<string | null>`json_extract(${records.data}, '$.system.donor.inchiKey')`,
-      acceptorKey: sql<string | null>`json_extract(${records.data}, '$.system.acceptor.inchiKey')`,
-      bridgeKey: sql<string | null>`json_extract(${records.data}, '$.system.bridge.inchiKey')`,
+      // an InChIKey the record gives, else the one RDKit made from its SMILES (the structure cache)
+      donorKey: speciesInchiKey('donor'),
+      acceptorKey: speciesInchiKey('acceptor'),
+      bridgeKey: speciesInchiKey('bridge'),
       linkage: records.linkage,
       process: records.process,
       medium: sql<string | null>`coalesce(${records.solvent}, json_extract(${records.data}, '$.medium.matrix'))`,
@@ -105,19 +111,31 @@ export async function systemOfRecord (id: number): Promise<MeasuredSystem | unde
   return (await allSystems()).find(s => s.recordCount > 1 && s.records.some(r => r.id === id))
 }
 
+/** The cached InChIKeys of the SMILES these records give. */
+export async function inchiKeysOf (data: RateRecordV1[]): Promise<Map<string, string | null>> {
+  const smiles = data
+    .flatMap(d => [d.system.donor.smiles, d.system.acceptor.smiles, d.system.bridge?.smiles])
+    .filter((x): x is string => !!x)
+  const known = await structuresFor(smiles)
+  return new Map([...known].map(([k, v]) => [k, v.inchiKey]))
+}
+
 /** A stored record as a member of a system (lab and dataset given by the caller). */
 export function memberOf (
   r: { id: number, data: RateRecordV1, temperatureK: number, rate: number, log10Rate: number, solvent: string | null },
-  where: { labId: number, labName: string, datasetId: number }
+  where: { labId: number, labName: string, datasetId: number },
+  /** InChIKeys RDKit made from SMILES (the structure cache), for species that give SMILES but no key */
+  keys: Map<string, string | null> = new Map()
 ): SystemMember {
   const d = r.data
+  const key = (sp: { inchiKey?: string, smiles?: string }) => sp.inchiKey ?? (sp.smiles ? keys.get(sp.smiles) : null) ?? null
   return {
     id: r.id,
     ...where,
     doi: null,
-    donor: { name: d.system.donor.name, inchiKey: d.system.donor.inchiKey },
-    acceptor: { name: d.system.acceptor.name, inchiKey: d.system.acceptor.inchiKey },
-    bridge: d.system.bridge ? { name: d.system.bridge.name, inchiKey: d.system.bridge.inchiKey } : null,
+    donor: { name: d.system.donor.name, inchiKey: key(d.system.donor) },
+    acceptor: { name: d.system.acceptor.name, inchiKey: key(d.system.acceptor) },
+    bridge: d.system.bridge ? { name: d.system.bridge.name, inchiKey: key(d.system.bridge) } : null,
     linkage: d.system.linkage,
     process: d.process,
     medium: r.solvent ?? d.medium.matrix ?? null,
