@@ -2,12 +2,11 @@
  * The landing page of a published dataset of 10 000 records, rendered by the built server (SSR HTML and the
  * API answer it fetches): median and p95 milliseconds over 40 requests each, after 5 to warm up.
  */
-import { spawn } from 'node:child_process'
 import { existsSync, mkdtempSync, rmSync } from 'node:fs'
-import { createServer } from 'node:net'
 import { tmpdir } from 'node:os'
 import { join } from 'node:path'
 import { report } from './report'
+import { startBuilt } from './built-server'
 
 const N = 10_000
 const entry = join(import.meta.dirname, '../.output/server/index.mjs')
@@ -40,26 +39,7 @@ await db.transaction(async (tx) => {
 })
 client.close()
 
-const port = await new Promise<number>((r) => {
-  const s = createServer()
-  s.listen(0, '127.0.0.1', () => {
-    const p = (s.address() as { port: number }).port
-    s.close(() => r(p))
-  })
-})
-const url = `http://127.0.0.1:${port}`
-const proc = spawn(process.execPath, [entry], {
-  env: { ...process.env, PORT: String(port), HOST: '127.0.0.1', AUTH_ORIGIN: `${url}/api/auth`, NUXT_DATA_DIR: dir,
-    NUXT_AUTH_SECRET: 'bench-secret-not-for-production' },
-  stdio: 'ignore'
-})
-for (let i = 0; i < 600; i++) {
-  try {
-    if ((await fetch(`${url}/api/v1/health`)).ok) break
-  }
-  catch { /* starting */ }
-  await new Promise(r => setTimeout(r, 100))
-}
+const { url, stop } = await startBuilt(entry, dir, 60)
 
 async function time (path: string): Promise<{ median: number, p95: number, bytes: number }> {
   const ms: number[] = []
@@ -77,7 +57,7 @@ async function time (path: string): Promise<{ median: number, p95: number, bytes
 }
 const page = await time(`/datasets/${d!.id}`)
 const apiAnswer = await time(`/api/v1/datasets/${d!.id}?records=summary&page=1&pageSize=50`)
-proc.kill('SIGTERM')
+stop()
 report('dataset.page10k.median_ms', page.median, 'ms', 30)
 report('dataset.page10k.p95_ms', page.p95, 'ms', 60)
 report('dataset.api10k.median_ms', apiAnswer.median, 'ms', 10)

@@ -3,12 +3,11 @@
  * systems are measured by several labs): the first answer (grouping and consensus computed) and the warm answers of
  * the list, a search, one system and a record page's API (which names its system), median and p95 over 40 requests.
  */
-import { spawn } from 'node:child_process'
 import { existsSync, mkdtempSync, rmSync } from 'node:fs'
-import { createServer } from 'node:net'
 import { tmpdir } from 'node:os'
 import { join } from 'node:path'
 import { report } from './report'
+import { startBuilt } from './built-server'
 
 const N = 100_000
 const DATASETS_N = 100
@@ -45,26 +44,7 @@ for (let k = 0; k < DATASETS_N; k++) {
 }
 client.close()
 
-const port = await new Promise<number>((r) => {
-  const s = createServer()
-  s.listen(0, '127.0.0.1', () => {
-    const p = (s.address() as { port: number }).port
-    s.close(() => r(p))
-  })
-})
-const url = `http://127.0.0.1:${port}`
-const proc = spawn(process.execPath, [entry], {
-  env: { ...process.env, PORT: String(port), HOST: '127.0.0.1', AUTH_ORIGIN: `${url}/api/auth`, NUXT_DATA_DIR: dir,
-    NUXT_AUTH_SECRET: 'bench-secret-not-for-production' },
-  stdio: 'ignore'
-})
-for (let i = 0; i < 1200; i++) {
-  try {
-    if ((await fetch(`${url}/api/v1/health`)).ok) break
-  }
-  catch { /* starting */ }
-  await new Promise(r => setTimeout(r, 100))
-}
+const { url, stop } = await startBuilt(entry, dir, 120)
 
 async function time (path: string, n = 40): Promise<{ median: number, p95: number }> {
   const ms: number[] = []
@@ -85,7 +65,7 @@ const list = await time('/api/v1/systems')
 const search = await time('/api/v1/systems?q=porphyrin+toluene')
 const one = await time(`/api/v1/systems/${first.items[0]!.key}`)
 const record = await time('/api/v1/records/50000')
-proc.kill('SIGTERM')
+stop()
 report('systems.first100k.ms', cold, 'ms', 2000)
 report('systems.list100k.p95_ms', list.p95, 'ms', 50)
 report('systems.search100k.p95_ms', search.p95, 'ms', 50)
