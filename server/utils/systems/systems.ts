@@ -10,13 +10,21 @@ import { publishedRecordsWhere } from '../publishing/archive'
 import { useSearch } from '../search/search'
 import { structuresFor } from '../search/structures'
 import {
-  DISCREPANCY_Z_FOR_REVIEW, groupSystems, log10Sigma, sameSystem, zAgainst, type MeasuredSystem, type Synonyms,
+  DISCREPANCY_Z_FOR_REVIEW, groupSystems, identityOf, log10Sigma, sameSystem, zAgainst, type MeasuredSystem, type Synonyms,
   type SystemMember
 } from '../../../shared/records/systems'
 import type { RateRecordV1 } from '../../../shared/records/types'
 
 const { rateRecords: records, datasetVersions: versions, datasets, labs } = schema
-let cached: { generation: number, systems: Promise<MeasuredSystem[]> } | undefined
+interface Lookups {
+  list: MeasuredSystem[]
+  byKey: Map<string, MeasuredSystem>
+  /** systems of more than one record, by each record's id (a record page asks on every view) */
+  byRecord: Map<number, MeasuredSystem>
+  /** systems by identity, for matching submitted records without comparing each with every system */
+  byIdentity: Map<string, MeasuredSystem[]>
+}
+let cached: { generation: number, lookups: Promise<Lookups> } | undefined
 let synonymCache: Promise<Synonyms> | undefined
 
 /** Curators' species synonyms, normalised alias → normalised name. */
@@ -90,25 +98,38 @@ async function compute (): Promise<MeasuredSystem[]> {
     .sort((a, b) => b.labCount - a.labCount || b.recordCount - a.recordCount || (a.key < b.key ? -1 : 1))
 }
 
-/** Every system of the published archive (one record or more), largest first. */
-export async function allSystems (): Promise<MeasuredSystem[]> {
+async function lookups (): Promise<Lookups> {
   const generation = (await useSearch()).index.generation
   if (!cached || cached.generation !== generation) {
-    cached = { generation, systems: compute() }
-    cached.systems.catch(() => {
+    const built = compute().then((list) => {
+      const byRecord = new Map<number, MeasuredSystem>()
+      const byIdentity = new Map<string, MeasuredSystem[]>()
+      for (const s of list) {
+        if (s.recordCount > 1) for (const r of s.records) byRecord.set(r.id, s)
+        ;(byIdentity.get(s.identity) ?? byIdentity.set(s.identity, []).get(s.identity)!).push(s)
+      }
+      return { list, byKey: new Map(list.map(s => [s.key, s])), byRecord, byIdentity }
+    })
+    cached = { generation, lookups: built }
+    built.catch(() => {
       cached = undefined
     })
   }
-  return cached.systems
+  return cached.lookups
+}
+
+/** Every system of the published archive (one record or more), largest first. */
+export async function allSystems (): Promise<MeasuredSystem[]> {
+  return (await lookups()).list
 }
 
 export async function systemByKey (key: string): Promise<MeasuredSystem | undefined> {
-  return (await allSystems()).find(s => s.key === key)
+  return (await lookups()).byKey.get(key)
 }
 
 /** The system a published record belongs to, when other records (or labs) measured it too. */
 export async function systemOfRecord (id: number): Promise<MeasuredSystem | undefined> {
-  return (await allSystems()).find(s => s.recordCount > 1 && s.records.some(r => r.id === id))
+  return (await lookups()).byRecord.get(id)
 }
 
 /** The cached InChIKeys of the SMILES these records give. */
@@ -150,11 +171,12 @@ export function memberOf (
  * consensus and the record's z against it; |z| > 3 is a discrepancy the curator sees before accepting.
  */
 export async function systemMatches (members: SystemMember[]) {
-  const systems = (await allSystems()).filter(s => s.records.length)
+  const { byIdentity } = await lookups()
   const synonyms = await curatorSynonyms()
   const out = []
   for (const m of members) {
-    const sys = systems.find(s => sameSystem(s, m, synonyms) && s.records.some(r => r.datasetId !== m.datasetId))
+    const candidates = byIdentity.get(identityOf(m, synonyms)) ?? []
+    const sys = candidates.find(s => sameSystem(s, m, synonyms) && s.records.some(r => r.datasetId !== m.datasetId))
     if (!sys) continue
     const against = zAgainst({ ...sys, records: sys.records.filter(r => r.datasetId !== m.datasetId) }, m)
     out.push({
