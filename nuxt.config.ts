@@ -28,6 +28,10 @@ export default defineNuxtConfig({
     oaiPageSize: 100,
     oaiAdminEmail: 'curators@crosspoint.example',
     dataDir: './data',
+    /** saved-search digests: each search is mailed at most once per this many hours (0: only on demand) */
+    alertsEveryHours: 24,
+    /** how often the schedule looks for searches that are due */
+    alertsCheckMinutes: 15,
     authSecret: DEMO_AUTH_SECRET,
     smtpUrl: '',
     registrarUrl: '',

@@ -9,6 +9,8 @@ import { MAX_AUTH_BYTES, MAX_JSON_BYTES, MAX_JSON_DEPTH, readCappedBody, jsonDep
 import { MAX_FILE_BYTES } from '../utils/deposit/parse'
 
 const UPLOAD_ROUTE = /^\/api\/v1\/datasets\/\d+\/uploads\/check\/?(\?|$)/
+/** RFC 8058 one-click unsubscribe: the mail provider POSTs "List-Unsubscribe=One-Click" form-encoded. */
+const UNSUBSCRIBE_ROUTE = /^\/api\/v1\/account\/saved-searches\/unsubscribe\/?(\?|$)/
 
 export default defineEventHandler(async (event) => {
   if (!['POST', 'PUT', 'PATCH', 'DELETE'].includes(event.method)) return
@@ -20,7 +22,7 @@ export default defineEventHandler(async (event) => {
       tooLarge(event, MAX_FILE_BYTES, 'Uploaded files')
     return
   }
-  if (path.startsWith('/api/auth/')) {
+  if (path.startsWith('/api/auth/') || (UNSUBSCRIBE_ROUTE.test(path) && type.startsWith('application/x-www-form-urlencoded'))) {
     await readCappedBody(event, MAX_AUTH_BYTES)
     return
   }

@@ -101,6 +101,7 @@ describe('service routes', () => {
       '/api/v1/solvents': '/api/v1/solvents',
       '/api/v1/me': '/api/v1/me',
       '/api/v1/systems': '/api/v1/systems?q=xylylene',
+      '/api/v1/datasets/{id}/usage': '/api/v1/datasets/1/usage?from=2026-01&until=2026-12',
       '/api/v1/systems/{key}': `/api/v1/systems/${(await api(s.url, '/api/v1/systems')).data.items[0].key}`
     }
     let checked = 0

@@ -7,5 +7,6 @@
 export * from './accounts'
 export * from './archive'
 export * from './review'
+export * from './usage'
 export * from './files'
 export * from './relations'

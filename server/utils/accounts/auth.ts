@@ -85,11 +85,15 @@ export async function getViewer (event: H3Event): Promise<Viewer | null> {
     if (!t) throw httpError(401, 'The API token is not valid or has been revoked')
     await db.update(schema.apiTokens).set({ lastUsedAt: new Date() }).where(eq(schema.apiTokens.id, t.id))
     viewer = await loadViewer(t.userId)
+    event.context.signedInVia = { tokenId: t.id }
   }
   else {
     // the token itself (no session round trip), and only while the session stands
     const token = (await getToken({ event }).catch(() => null)) as SessionClaims | null
-    if (token && typeof token.uid === 'string' && (await sessionStands(token))) viewer = await loadViewer(token.uid)
+    if (token && typeof token.uid === 'string' && (await sessionStands(token))) {
+      viewer = await loadViewer(token.uid)
+      event.context.signedInVia = { sessionId: String(token.sid) }
+    }
   }
   event.context.viewer = viewer
   return viewer

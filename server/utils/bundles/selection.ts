@@ -1,5 +1,5 @@
 /** What a bundle holds: the selection as SQL, read in pages inside one read snapshot. */
-import { eq, sql, type SQL } from 'drizzle-orm'
+import { and, eq, sql, type SQL } from 'drizzle-orm'
 import { useDb, useDbClient, schema } from '../storage/db'
 import { CSV_FORMAT, recordCsvLine } from '../../../shared/records/csv'
 import type { RateRecordV1 } from '../../../shared/records/types'
@@ -127,6 +127,18 @@ export async function refreshCsvLines (sel: Selection): Promise<void> {
           .where(eq(records.id, r.id))
     })
   }
+}
+
+/** The published datasets a selection draws on (each is counted as requested when its bundle is sent). */
+export async function datasetsOfSelection (sel: Selection): Promise<number[]> {
+  const db = await useDb()
+  const rows = await db
+    .selectDistinct({ id: datasets.id })
+    .from(records)
+    .innerJoin(versions, eq(versions.id, records.versionId))
+    .innerJoin(datasets, eq(datasets.id, versions.datasetId))
+    .where(and(sel.where, eq(versions.state, 'published')))
+  return rows.map(r => r.id)
 }
 
 export async function countSelection (sel: Selection): Promise<number> {

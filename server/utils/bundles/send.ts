@@ -3,7 +3,8 @@ import { PassThrough } from 'node:stream'
 import { sendStream, setHeaders, type H3Event } from 'h3'
 import { httpError } from '../http/errors'
 import { clientAddress } from '../http/rate-limit'
-import { type Selection, countSelection } from './selection'
+import { type Selection, countSelection, datasetsOfSelection } from './selection'
+import { countUsage } from '../usage/counter'
 import { writeBundle } from './bundle'
 
 export const MAX_BUNDLE_RECORDS = 200_000
@@ -54,6 +55,10 @@ export async function sendBundle (event: H3Event, sel: Selection, filename: stri
     'content-disposition': `attachment; filename="${filename}"`,
     'x-crosspoint-records': String(n)
   })
+  // COUNTER: a request of every published dataset the bundle draws on
+  datasetsOfSelection(sel)
+    .then(ids => ids.forEach(id => countUsage(event, id, 'request', 'bundle')))
+    .catch(() => {})
   // the instance-wide slot is freed when the work has really stopped (its snapshot closed), not at disconnect
   writeBundle(sel, out, controller.signal, filename.replace(/\.zip$/, ''))
     .catch((e) => {

@@ -8,10 +8,13 @@ import { curveBodySchema, fitBodySchema } from '../model/route-schemas'
 import { RECORD_QUERY_PARAMETERS } from '../publishing/dataset-view'
 import { recordQuerySchema } from '../search/record-query'
 import {
-  BUNDLE_QUERY, CITATION_QUERY, DATASET_LIST_QUERY, REVIEW_QUEUE_QUERY, SIMILAR_QUERY, SYSTEM_LIST_QUERY
+  BUNDLE_QUERY, CITATION_QUERY, DATASET_LIST_QUERY, REVIEW_QUEUE_QUERY, SIMILAR_QUERY, SYSTEM_LIST_QUERY,
+  USAGE_QUERY,
+  USAGE_REPORT_QUERY
 } from './query-schemas'
 import { PROBLEM_SCHEMA, RESPONSE_SCHEMAS } from './response-schemas'
 import { SYNONYM_BODY } from '../systems/systems'
+import { SAVED_SEARCH_BODY, SAVED_SEARCH_PATCH, UNSUBSCRIBE_BODY } from '../alerts/saved-searches'
 
 type Schema = { type?: string, required?: string[], properties?: Record<string, Record<string, unknown>> }
 interface Parameter { in: string, name: string, required?: boolean, schema?: unknown, description?: string }
@@ -38,12 +41,17 @@ const QUERIES: Record<string, Schema> = {
   'GET /api/v1/datasets/{id}/bundle': BUNDLE_QUERY,
   'GET /api/v1/records/{id}/similar': SIMILAR_QUERY,
   'GET /api/v1/review/queue': REVIEW_QUEUE_QUERY,
-  'GET /api/v1/systems': SYSTEM_LIST_QUERY
+  'GET /api/v1/systems': SYSTEM_LIST_QUERY,
+  'GET /api/v1/datasets/{id}/usage': USAGE_QUERY,
+  'GET /api/v1/reports/datasets': USAGE_REPORT_QUERY
 }
 const BODIES: Record<string, unknown> = {
   'POST /api/v1/model/curve': curveBodySchema,
   'POST /api/v1/model/fit': fitBodySchema,
-  'POST /api/v1/species-synonyms': SYNONYM_BODY
+  'POST /api/v1/species-synonyms': SYNONYM_BODY,
+  'POST /api/v1/account/saved-searches': SAVED_SEARCH_BODY,
+  'PATCH /api/v1/account/saved-searches/{id}': SAVED_SEARCH_PATCH,
+  'POST /api/v1/account/saved-searches/unsubscribe': UNSUBSCRIBE_BODY
 }
 /** Operations anyone may call; every other one needs a session cookie or an API token (else 401). */
 export const PUBLIC_OPERATIONS = new Set([
@@ -54,7 +62,8 @@ export const PUBLIC_OPERATIONS = new Set([
   'GET /api/v1/solvents', 'GET /api/v1/me', 'GET /api/v1/systems', 'GET /api/v1/systems/{key}', 'GET /api/v1/species-synonyms',
   'POST /api/v1/bundles', 'POST /api/v1/model/curve', 'POST /api/v1/model/fit',
   'POST /api/v1/account/signup', 'POST /api/v1/account/login-link', 'POST /api/v1/account/password-reset',
-  'POST /api/v1/account/password-reset/confirm', 'POST /api/v1/account/verify'
+  'POST /api/v1/account/password-reset/confirm', 'POST /api/v1/account/verify',
+  'GET /api/v1/datasets/{id}/usage', 'POST /api/v1/account/saved-searches/unsubscribe'
 ])
 const ERRORS: Record<string, string> = {
   401: 'Not signed in, or the API token is not valid',

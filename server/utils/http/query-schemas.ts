@@ -50,3 +50,22 @@ export const SYSTEM_LIST_QUERY = {
     ...pagingProperties
   }
 }
+const MONTH = { type: 'string', pattern: '^(19|20)\\d{2}-(0[1-9]|1[0-2])$' }
+export const USAGE_QUERY = {
+  type: 'object',
+  additionalProperties: false,
+  properties: {
+    from: { ...MONTH, description: 'first month counted, YYYY-MM (default: eleven months before `until`)' },
+    until: { ...MONTH, description: 'last month counted, YYYY-MM (default: this month)' }
+  }
+}
+const MONTH_OR_DAY = { type: 'string', pattern: '^(19|20)\\d{2}-(0[1-9]|1[0-2])(-(0[1-9]|[12]\\d|3[01]))?$' }
+export const USAGE_REPORT_QUERY = {
+  type: 'object',
+  additionalProperties: false,
+  required: ['begin', 'end'],
+  properties: {
+    begin: { ...MONTH_OR_DAY, description: 'YYYY-MM or YYYY-MM-DD: the report starts with this month' },
+    end: { ...MONTH_OR_DAY, description: 'YYYY-MM or YYYY-MM-DD: the report ends with this month' }
+  }
+}

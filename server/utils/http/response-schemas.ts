@@ -123,4 +123,14 @@ export const RESPONSE_SCHEMAS: Record<string, Schema> = {
     }
   })
 }
+const PAIR = obj({ total: int, unique: int })
+const COUNTER_PAIRS = { investigations: PAIR, requests: PAIR }
+RESPONSE_SCHEMAS['GET /api/v1/datasets/{id}/usage'] = obj({
+  datasetId: int,
+  from: str,
+  until: str,
+  ...COUNTER_PAIRS,
+  machine: obj(COUNTER_PAIRS),
+  months: { type: 'array', items: obj({ month: { type: 'string', pattern: '^\\d{4}-\\d{2}$' }, ...COUNTER_PAIRS }) }
+})
 RESPONSE_SCHEMAS['GET /api/v1/datasets/{id}/versions/{n}'] = RESPONSE_SCHEMAS['GET /api/v1/datasets/{id}']!

@@ -63,12 +63,12 @@ async function useTransport (): Promise<Transporter> {
 export const MAIL_FROM = 'Crosspoint <no-reply@crosspoint.example>'
 
 /** Records the message in the outbox, then sends it; a failed send is kept as failed, never thrown at the caller. */
-export async function sendMail (to: string, subject: string, text: string): Promise<number> {
+export async function sendMail (to: string, subject: string, text: string, headers?: Record<string, string>): Promise<number> {
   const db = await useDb()
   const [row] = await db.insert(schema.mailOutbox).values({ to, subject, text }).returning({ id: schema.mailOutbox.id })
   try {
     const t = await useTransport()
-    await t.sendMail({ from: MAIL_FROM, to, subject, text })
+    await t.sendMail({ from: MAIL_FROM, to, subject, text, headers })
     await db
       .update(schema.mailOutbox)
       .set({ status: 'sent', sentAt: new Date() })
@@ -84,7 +84,7 @@ export async function sendMail (to: string, subject: string, text: string): Prom
 }
 
 export function publicUrl (path: string): string {
-  let base = 'http://localhost:3000'
+  let base = process.env.NUXT_PUBLIC_BASE_URL ?? 'http://localhost:3000'
   try {
     base = useRuntimeConfig().public.baseUrl
   }

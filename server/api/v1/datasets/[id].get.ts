@@ -1,6 +1,7 @@
 import { getViewer } from '../../../utils/accounts/auth'
 import { datasetView, recordDetailOf } from '../../../utils/publishing/dataset-view'
 import { intParam } from '../../../utils/http/params'
+import { countUsage } from '../../../utils/usage/counter'
 
 defineRouteMeta({
   openAPI: {
@@ -16,5 +17,7 @@ defineRouteMeta({
 export default defineEventHandler(async (event) => {
   const id = intParam(event, 'id')
   const rq = recordDetailOf(event)
-  return datasetView(await getViewer(event), id, undefined, rq)
+  const view = await datasetView(await getViewer(event), id, undefined, rq)
+  if (view.version.state === 'published') countUsage(event, id, 'investigation', 'landing')
+  return view
 })

@@ -5,6 +5,7 @@ import { citableVersion } from '../../../../utils/publishing/dataset-view'
 import { intParam } from '../../../../utils/http/params'
 import { coerceNumbers, queryValidated } from '../../../../utils/http/validation'
 import { CITATION_QUERY } from '../../../../utils/http/query-schemas'
+import { countUsage } from '../../../../utils/usage/counter'
 
 defineRouteMeta({
   openAPI: {
@@ -22,6 +23,7 @@ export default defineEventHandler(async (event) => {
   )
   const v = await citableVersion(await getViewer(event), id, q.version)
   const out = renderCitation(v, q.format)
+  if (!v.withdrawnAt) countUsage(event, id, 'investigation', `citation:${q.format}`)
   setHeader(event, 'content-type', out.type)
   setHeader(event, 'content-disposition', `inline; filename="crosspoint-${id}-v${v.versionNumber}.${out.ext}"`)
   return out.body

@@ -3,6 +3,7 @@ import { getRecord } from '../../../../utils/publishing/archive'
 import { intParam } from '../../../../utils/http/params'
 import { structuresFor } from '../../../../utils/search/structures'
 import { systemOfRecord } from '../../../../utils/systems/systems'
+import { countUsage } from '../../../../utils/usage/counter'
 
 defineRouteMeta({
   openAPI: {
@@ -36,6 +37,7 @@ export default defineEventHandler(async (event) => {
       ]
     })
   )
+  if (version.state === 'published') countUsage(event, dataset.id, 'investigation', `record:${record.id}`)
   const sys = version.state === 'published' ? await systemOfRecord(record.id) : undefined
   const mine = sys?.records.find(r => r.id === record.id)
   return {
