@@ -62,8 +62,10 @@ const mix = [
 const skip = (process.env.LOAD_SKIP ?? '').split(',').filter(Boolean)
 const kinds = ['search', 'record', 'curve', 'page', 'bundle', 'signin']
 const active = mix.filter((_, i) => !skip.includes(kinds[i]!))
+// a desktop browser's user agent, so that page, record and bundle requests are counted as usage (COUNTER) like a person's
+const BROWSER = 'Mozilla/5.0 (X11; Linux x86_64; rv:128.0) Gecko/20100101 Firefox/128.0'
 const run = (duration: number) => autocannon({
-  url, connections: 50, duration,
+  url, connections: 50, duration, headers: { 'user-agent': BROWSER },
   requests: [{ setupRequest: (req: Record<string, unknown>) => ({ ...req, ...active[n++ % active.length]!() }) }]
 })
 await run(Number(process.env.LOAD_WARMUP_SECONDS ?? 20))
@@ -79,6 +81,7 @@ const codes = res.statusCodeStats as Record<string, { count: number }>
 const fiveXX = Object.entries(codes).filter(([c]) => c.startsWith('5')).reduce((s, [, v]) => s + v.count, 0)
 const rssEnd = rss()
 clearInterval(sampler)
+const usage = await (await fetch(`${url}/api/v1/datasets/12/usage`)).json() as { requests: { total: number } }
 proc.kill('SIGTERM')
 const half = samples.slice(Math.floor(samples.length / 2))
 // live heap after full collections: median of the first third against the median of the last third
@@ -100,5 +103,6 @@ report('load.mixed.live_heap_first_third_mb', liveFirst, 'MB', 0)
 report('load.mixed.live_heap_growth_mb', liveLast - liveFirst, 'MB', 20)
 process.stderr.write(`(live heap after each full GC: ${fullGcs.map(g => g.liveMb.toFixed(0)).join(' ')} MB)\n`)
 process.stderr.write(`(RSS every 5 s: ${samples.map(x => x.toFixed(0)).join(' ')} MB)\n`)
+process.stderr.write(`(dataset 12 usage: ${JSON.stringify(usage.requests)} requests after double-click filtering)\n`)
 process.stderr.write(`(status codes: ${JSON.stringify(Object.fromEntries(Object.entries(codes).map(([k, v]) => [k, v.count])))})\n`)
 rmSync(dir, { recursive: true, force: true })

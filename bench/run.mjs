@@ -9,7 +9,7 @@ const groups = [
   { file: 'bench/search.ts', names: ['search.build100k.seconds', 'search.query.p95_ms', 'search.http.requests_per_second', 'search.server.rss_mb'] },
   { file: 'bench/bundle.ts', names: ['bundle.records100k.seconds', 'bundle.records100k.rss_growth_mb'] },
   { file: 'bench/compare.ts', names: ['compare.redraw5000.ms'] },
-  { file: 'bench/dataset-page.ts', names: ['dataset.page10k.median_ms', 'dataset.page10k.p95_ms', 'dataset.api10k.median_ms'] },
+  { file: 'bench/dataset-page.ts', names: ['dataset.page10k.median_ms', 'dataset.page10k.p95_ms', 'dataset.api10k.median_ms', 'usage.landing.added_ms', 'usage.api.added_ms'] },
   { file: 'bench/systems.ts', names: ['systems.first100k.ms', 'systems.list100k.p95_ms', 'systems.search100k.p95_ms', 'systems.detail100k.p95_ms', 'systems.record100k.p95_ms'] },
   { file: 'bench/load.ts', names: ['load.mixed.requests_per_second', 'load.mixed.p50_ms', 'load.mixed.p99_ms', 'load.mixed.errors', 'load.mixed.rss_start_mb', 'load.mixed.rss_end_mb', 'load.mixed.rss_growth_second_half_mb', 'load.mixed.full_gcs', 'load.mixed.live_heap_first_third_mb', 'load.mixed.live_heap_growth_mb'] }
 ]

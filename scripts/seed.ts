@@ -3,11 +3,11 @@
  * row is found by a natural key (e-mail, lab slug, solvent name, dataset seed key) and skipped
  * when it is already there, so running it twice leaves the same counts.
  */
-import { eq } from 'drizzle-orm'
+import { and, eq } from 'drizzle-orm'
 import { hash } from '@node-rs/argon2'
 import { openDatabase, schema } from '../server/utils/storage/db'
 import { recordColumns } from '../shared/records/record-columns'
-import { DATASETS, DEMO_PASSWORD, LABS, PEOPLE, SOLVENTS, demoMetadata, demoRecords } from './lib/scenario'
+import { DATASETS, DEMO_PASSWORD, LABS, PEOPLE, SOLVENTS, demoMetadata, demoRecords, rng } from './lib/scenario'
 
 const prefix = process.env.NUXT_REGISTRAR_PREFIX ?? '10.99999'
 const DAY = 86400e3
@@ -86,6 +86,7 @@ export async function seed (url = process.env.NUXT_DATABASE_URL ?? 'file:./data/
         }
       })
     }
+    await seedUsage(db)
     const counts: Record<string, number> = {}
     for (const t of ['user', 'lab', 'lab_membership', 'dataset', 'dataset_version', 'rate_record', 'review', 'record_comment', 'solvent']) {
       counts[t] = (await client.execute(`select count(*) as n from "${t}"`)).rows[0]!.n as number
@@ -94,6 +95,44 @@ export async function seed (url = process.env.NUXT_DATABASE_URL ?? 'file:./data/
   }
   finally {
     client.close()
+  }
+}
+
+/**
+ * Invented views and downloads (demo data) for each published demo dataset without any: visits from its
+ * publication to now, each a made-up user-session that opens the landing page and a few records and sometimes
+ * downloads the bundle. Written as usage events, so the counting rules apply to them as to real ones.
+ */
+async function seedUsage (db: Awaited<ReturnType<typeof openDatabase>>['db']) {
+  const published = await db
+    .select({ datasetId: schema.datasetVersions.datasetId, at: schema.datasetVersions.publishedAt })
+    .from(schema.datasetVersions)
+    .innerJoin(schema.datasets, eq(schema.datasets.id, schema.datasetVersions.datasetId))
+    .where(and(eq(schema.datasetVersions.state, 'published'), eq(schema.datasets.isDemo, true)))
+  const now = Date.now()
+  for (const p of published) {
+    if (!p.at) continue
+    const [any] = await db.select({ id: schema.usageEvents.id }).from(schema.usageEvents).where(eq(schema.usageEvents.datasetId, p.datasetId)).limit(1)
+    if (any) continue
+    const r = rng(9100 + p.datasetId).next
+    const events: (typeof schema.usageEvents.$inferInsert)[] = []
+    const popularity = 0.5 + 2 * r()
+    for (let t = Math.max(p.at.getTime(), now - 400 * DAY); t < now; t += DAY) {
+      const visits = Math.floor(r() * 3 * popularity)
+      for (let v = 0; v < visits; v++) {
+        const session = `demo-${p.datasetId}-${t}-${v}`
+        const machine = r() < 0.05
+        let at = t + Math.floor(r() * DAY * 0.9)
+        if (at > now) break
+        events.push({ datasetId: p.datasetId, kind: 'investigation', item: 'landing', session, machine, at: new Date(at) })
+        for (let k = Math.floor(r() * 3); k > 0; k--) {
+          at += 40e3 + Math.floor(r() * 120e3)
+          events.push({ datasetId: p.datasetId, kind: 'investigation', item: `record:${k}`, session, machine, at: new Date(at) })
+        }
+        if (r() < 0.15) events.push({ datasetId: p.datasetId, kind: 'request', item: 'bundle', session, machine, at: new Date(at + 60e3) })
+      }
+    }
+    for (let i = 0; i < events.length; i += 500) await db.insert(schema.usageEvents).values(events.slice(i, i + 500))
   }
 }
 

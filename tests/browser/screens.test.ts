@@ -34,7 +34,7 @@ beforeAll(async () => {
     { who: 'contributorA', path: '/account' },
     { who: 'curator', path: '/review' },
     ...(sub ? [{ who: 'curator' as const, path: `/review/${sub.datasetId}` }] : []),
-    ...['users', 'labs', 'solvents', 'outbox', 'audit'].map(t => ({ who: 'admin' as const, path: `/admin?tab=${t}` }))
+    ...['users', 'labs', 'solvents', 'outbox', 'audit', 'usage'].map(t => ({ who: 'admin' as const, path: `/admin?tab=${t}` }))
   )
 })
 afterAll(async () => { await browser?.close(); await s?.stop() })

@@ -45,7 +45,7 @@ export const savedSearches = sqliteTable(
       .references(() => users.id, { onDelete: 'cascade' }),
     name: text('name').notNull(),
     /** The search's parameters as Explore and GET /api/v1/records take them (validated JSON object). */
-    query: text('query', { mode: 'json' }).notNull().$type<Record<string, string | number>>(),
+    query: text('query', { mode: 'json' }).notNull().$type<Partial<Record<string, string | number>>>(),
     alerts: integer('alerts', { mode: 'boolean' }).notNull().default(true),
     /** Records that became public up to this moment have been considered for a digest. */
     checkedUntil: integer('checked_until', { mode: 'timestamp_ms' }).notNull(),

@@ -90,9 +90,9 @@ export async function runAlerts (opts: { now?: Date, dueBefore?: Date } = {}): P
   const versions = await newlyPublic(since, now)
   const records = versions.size
     ? await db
-      .select({ id: schema.rateRecords.id, versionId: schema.rateRecords.versionId })
-      .from(schema.rateRecords)
-      .where(inArray(schema.rateRecords.versionId, [...versions.keys()]))
+        .select({ id: schema.rateRecords.id, versionId: schema.rateRecords.versionId })
+        .from(schema.rateRecords)
+        .where(inArray(schema.rateRecords.versionId, [...versions.keys()]))
     : []
   await syncFromDatabase()
   const index = (await useSearch()).index
@@ -111,13 +111,15 @@ export async function runAlerts (opts: { now?: Date, dueBefore?: Date } = {}): P
       .returning({ id: s.id })
     if (!claimed.length || !matched.length) continue
     const q = search.query as SavedQuery
-    const unsubscribe = publicUrl(`/unsubscribe?token=${encodeURIComponent(unsubscribeToken(search.id, search.userId))}`)
-    const oneClick = publicUrl(`/api/v1/account/saved-searches/unsubscribe?token=${encodeURIComponent(unsubscribeToken(search.id, search.userId))}`)
+    const token = encodeURIComponent(unsubscribeToken(search.id, search.userId))
+    const unsubscribe = publicUrl(`/unsubscribe?token=${token}`)
+    const oneClick = publicUrl(`/api/v1/account/saved-searches/unsubscribe?token=${token}`)
+    const since = search.checkedUntil.toISOString().slice(0, 16).replace('T', ' ')
     const shown = matched.slice(0, DIGEST_LIMIT)
     const text = [
       `Hello${person ? ` ${person}` : ''},`,
       '',
-      `${countOf(matched.length, 'record')} published on Crosspoint since ${search.checkedUntil.toISOString().slice(0, 16).replace('T', ' ')} UTC `
+      `${countOf(matched.length, 'record')} published on Crosspoint since ${since} UTC `
       + `${matched.length === 1 ? 'matches' : 'match'} your saved search "${search.name}" (${queryInWords(q)}):`,
       '',
       ...(await digestLines(shown)),

@@ -17,7 +17,9 @@ export const SAVED_SEARCH_BODY = {
   additionalProperties: false,
   required: ['name', 'query'],
   properties: {
-    name: { type: 'string', minLength: 1, maxLength: 80, pattern: '\\S', description: 'a name of your own, unique among your saved searches' },
+    name: {
+      type: 'string', minLength: 1, maxLength: 80, pattern: '\\S', description: 'a name of your own, unique among your saved searches'
+    },
     query: {
       type: 'object',
       additionalProperties: false,
@@ -102,6 +104,9 @@ const shape = (r: typeof S.$inferSelect) => ({
   createdAt: r.createdAt
 })
 
+const nameInUse = (name: string) =>
+  httpError(409, `You have a saved search named "${name}" already`, [{ path: '/name', message: 'name in use' }])
+
 export async function listSavedSearches (userId: string) {
   const db = await useDb()
   return (await db.select().from(S).where(eq(S.userId, userId)).orderBy(asc(S.name))).map(shape)
@@ -112,9 +117,11 @@ export async function createSavedSearch (userId: string, b: { name: string, quer
   const name = b.name.trim()
   const [{ n }] = (await db.select({ n: count() }).from(S).where(eq(S.userId, userId))) as [{ n: number }]
   if (n >= MAX_SAVED_SEARCHES)
-    throw httpError(422, `You keep ${MAX_SAVED_SEARCHES} saved searches already; delete one first`, [{ path: '/name', message: 'too many saved searches' }])
+    throw httpError(422, `You keep ${MAX_SAVED_SEARCHES} saved searches already; delete one first`, [
+      { path: '/name', message: 'too many saved searches' }
+    ])
   const [clash] = await db.select({ id: S.id }).from(S).where(and(eq(S.userId, userId), eq(S.name, name)))
-  if (clash) throw httpError(409, `You have a saved search named "${name}" already`, [{ path: '/name', message: 'name in use' }])
+  if (clash) throw nameInUse(name)
   const [row] = await db
     .insert(S)
     .values({ userId, name, query: b.query, alerts: b.alerts ?? true, checkedUntil: new Date() })
@@ -135,12 +142,16 @@ export async function updateSavedSearch (userId: string, id: number, b: { alerts
   const name = b.name?.trim()
   if (name) {
     const [clash] = await db.select({ id: S.id }).from(S).where(and(eq(S.userId, userId), eq(S.name, name)))
-    if (clash && clash.id !== id) throw httpError(409, `You have a saved search named "${name}" already`, [{ path: '/name', message: 'name in use' }])
+    if (clash && clash.id !== id) throw nameInUse(name)
   }
   // turning mails back on starts from now: no digest of everything missed while they were off
   const [row] = await db
     .update(S)
-    .set({ ...(name ? { name } : {}), ...(b.alerts !== undefined ? { alerts: b.alerts, ...(b.alerts ? { checkedUntil: new Date() } : {}) } : {}), updatedAt: new Date() })
+    .set({
+      ...(name ? { name } : {}),
+      ...(b.alerts !== undefined ? { alerts: b.alerts, ...(b.alerts ? { checkedUntil: new Date() } : {}) } : {}),
+      updatedAt: new Date()
+    })
     .where(eq(S.id, id))
     .returning()
   return shape(row!)
@@ -158,7 +169,9 @@ export async function unsubscribe (token: string) {
   const db = await useDb()
   const id = await checkUnsubscribeToken(token, async i => (await db.select({ u: S.userId }).from(S).where(eq(S.id, i)))[0]?.u)
   if (id === null)
-    throw httpError(422, 'This unsubscribe link is not valid (or its saved search was deleted)', [{ path: '/token', message: 'not a valid unsubscribe token' }])
+    throw httpError(422, 'This unsubscribe link is not valid (or its saved search was deleted)', [
+      { path: '/token', message: 'not a valid unsubscribe token' }
+    ])
   const [row] = await db.update(S).set({ alerts: false, updatedAt: new Date() }).where(eq(S.id, id)).returning()
   await audit(row!.userId, 'saved-search.unsubscribed', 'saved_search', id)
   return { id, name: row!.name, alerts: false }

@@ -40,7 +40,7 @@ export function requesterOf (event: H3Event): Requester {
     userAgent: getHeader(event, 'user-agent') ?? '',
     tokenId: via?.tokenId,
     sessionId: via?.sessionId,
-    address: via ? undefined : clientAddress(event)
+    address: via ? undefined : ((event.context.clientAddress as string | undefined) ?? clientAddress(event))
   }
 }
 

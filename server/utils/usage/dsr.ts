@@ -23,18 +23,18 @@ export async function datasetReport (db: Db, begin: string, end: string, baseUrl
   const ids = [...new Set(rows.map(r => r.datasetId))]
   const versions = ids.length
     ? await db
-      .select({
-        datasetId: schema.datasetVersions.datasetId,
-        title: schema.datasetVersions.title,
-        metadata: schema.datasetVersions.metadata,
-        doi: schema.datasetVersions.doi,
-        publishedAt: schema.datasetVersions.publishedAt,
-        conceptDoi: schema.datasets.conceptDoi
-      })
-      .from(schema.datasetVersions)
-      .innerJoin(schema.datasets, eq(schema.datasets.id, schema.datasetVersions.datasetId))
-      .where(and(inArray(schema.datasetVersions.datasetId, ids), inArray(schema.datasetVersions.state, ['published', 'withdrawn'])))
-      .orderBy(desc(schema.datasetVersions.versionNumber))
+        .select({
+          datasetId: schema.datasetVersions.datasetId,
+          title: schema.datasetVersions.title,
+          metadata: schema.datasetVersions.metadata,
+          doi: schema.datasetVersions.doi,
+          publishedAt: schema.datasetVersions.publishedAt,
+          conceptDoi: schema.datasets.conceptDoi
+        })
+        .from(schema.datasetVersions)
+        .innerJoin(schema.datasets, eq(schema.datasets.id, schema.datasetVersions.datasetId))
+        .where(and(inArray(schema.datasetVersions.datasetId, ids), inArray(schema.datasetVersions.state, ['published', 'withdrawn'])))
+        .orderBy(desc(schema.datasetVersions.versionNumber))
     : []
   const newest = new Map<number, (typeof versions)[number]>()
   const first = new Map<number, Date>()

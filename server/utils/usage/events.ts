@@ -81,4 +81,3 @@ export async function usageEvent (
 export async function writeEvents (db: Db, events: UsageEvent[]): Promise<void> {
   for (let i = 0; i < events.length; i += 500) await db.insert(schema.usageEvents).values(events.slice(i, i + 500))
 }
-
