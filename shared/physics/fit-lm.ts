@@ -3,7 +3,36 @@
  * a bound), its convergence tests, and the covariance of the reduced problem. See fit.ts for why it is our own.
  */
 import { solve, Matrix } from 'ml-matrix'
-import { chiSquared, model, type Problem } from './fit-problem'
+
+/**
+ * A weighted least-squares problem as the optimizer sees it: data, weights 1/σ, a box, and the model. Both the
+ * rate-model fits (fit-problem.ts) and the decay fits (decay-fit.ts) are put in this shape, so that one
+ * optimizer, one set of convergence tests and one covariance serve both.
+ */
+export interface LsqProblem {
+  n: number
+  y: Float64Array
+  w: Float64Array
+  lo: ArrayLike<number>
+  hi: ArrayLike<number>
+  /** The model at the parameter vector, written into f. */
+  evaluate: (vec: ArrayLike<number>, f: Float64Array) => void
+  /** The size below which a parameter's finite-difference step does not shrink with its value. */
+  stepFloor: (j: number) => number
+}
+type Problem = LsqProblem
+
+function chiSquared (prob: Problem, f: Float64Array): number {
+  let chi = 0
+  for (let i = 0; i < prob.n; i++) {
+    const r = (prob.y[i]! - f[i]!) * prob.w[i]!
+    chi += r * r
+  }
+  return chi
+}
+function model (prob: Problem, vec: ArrayLike<number>, f: Float64Array): void {
+  prob.evaluate(vec, f)
+}
 
 export interface Run {
   vec: number[]
@@ -13,9 +42,9 @@ export interface Run {
   active: boolean[]
 }
 
-/** Relative finite-difference step for each free parameter (the coupling is already on a log scale). */
+/** Relative finite-difference step for each free parameter, not below the problem's floor for it. */
 function stepFor (prob: Problem, vec: number[], j: number, rel: number): number {
-  return rel * Math.max(Math.abs(vec[j]!), prob.free[j] === 'coupling' ? 1 : 0.05)
+  return rel * Math.max(Math.abs(vec[j]!), prob.stepFloor(j))
 }
 
 /**

@@ -6,6 +6,7 @@ import { IssueCollector } from './errors'
 import { checkBound, checkHuangRhys, MAX_HUANG_RHYS, MODEL_BOUNDS } from './bounds'
 import { createClassicalEvaluator, createSemiclassicalEvaluator } from './rates'
 import { countOf } from '../vocabulary'
+import type { LsqProblem } from './fit-lm'
 import {
   DEFAULT_INITIAL,
   LOG10_RATE_RANGE,
@@ -209,6 +210,19 @@ export function model (prob: Problem, vec: ArrayLike<number>, f: Float64Array): 
       ev.run(g.x, g.out)
       for (let j = 0; j < g.x.length; j++) f[g.idx[j]!] = g.out[j]!
     }
+  }
+}
+
+/** The problem as the optimizer takes it (the coupling is already on a log scale: its step floor is 1). */
+export function asLsq (prob: Problem): LsqProblem {
+  return {
+    n: prob.n,
+    y: prob.y,
+    w: prob.w,
+    lo: prob.lo,
+    hi: prob.hi,
+    evaluate: (vec, f) => model(prob, vec, f),
+    stepFloor: j => (prob.free[j] === 'coupling' ? 1 : 0.05)
   }
 }
 

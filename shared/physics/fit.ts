@@ -20,7 +20,7 @@
 import { IssueCollector } from './errors'
 import { checkHuangRhys } from './bounds'
 import { covariance, lmRun, type Run } from './fit-lm'
-import { assemble, chiSquared, model, prepare, profileCoupling, type Group, type Problem } from './fit-problem'
+import { asLsq, assemble, chiSquared, model, prepare, profileCoupling, type Group, type Problem } from './fit-problem'
 import {
   DEFAULT_INITIAL,
   MODEL_PARAMETERS,
@@ -142,7 +142,7 @@ export function fitRates (req: FitRequest): FitResult {
 
   // The scan and the first runs use at most SCAN_POINTS points; the best runs are then finished on all of them.
   const sub = subProblem(prob)
-  const runs = starts(sub, first, 3).map(s => lmRun(sub, s))
+  const runs = starts(sub, first, 3).map(s => lmRun(asLsq(sub), s))
   let iterations = runs.reduce((s, r) => s + r.iterations, 0)
   let startCount = runs.length
   let best: Run
@@ -151,12 +151,12 @@ export function fitRates (req: FitRequest): FitResult {
   }
   else {
     const order = runs.slice().sort((a, b) => a.chi - b.chi)
-    const finals = order.slice(0, 2).map(r => lmRun(prob, r.vec))
+    const finals = order.slice(0, 2).map(r => lmRun(asLsq(prob), r.vec))
     iterations += finals.reduce((s, r) => s + r.iterations, 0)
     best = finals.reduce((a, b) => (b.chi < a.chi ? b : a))
     // a stalled finish gets one more try from the caller's own start on all the points
     if (best.status === 'stalled') {
-      const again = lmRun(prob, first)
+      const again = lmRun(asLsq(prob), first)
       iterations += again.iterations
       startCount++
       if (again.chi < best.chi || (again.status === 'converged' && again.chi <= best.chi * (1 + 1e-9))) best = again
@@ -188,7 +188,7 @@ export function fitRates (req: FitRequest): FitResult {
       + `points: the values below are the best found, not a fit result. Fix a parameter, give starting values or add `
       + `points.`
     )
-  const { cov, noEffect } = covariance(prob, vec, best.active)
+  const { cov, noEffect } = covariance(asLsq(prob), vec, best.active)
   const p = assemble(prob, vec)
   const parameters: FitResult['parameters'] = {}
   const bounds: FitResult['bounds'] = {}
