@@ -46,6 +46,33 @@ export interface Original {
   unit: string
 }
 
+/** A decay trace as the open format names it (provenance of a fitted rate). */
+export interface TraceRef {
+  sha256: string
+  file?: string
+  timeUnit: 'fs' | 'ps' | 'ns' | 'us' | 'ms' | 's'
+  signal: 'transient-absorption' | 'emission' | 'other'
+  wavelengthNm?: number
+  points: number
+}
+export interface DecayFitRef {
+  model: 'mono' | 'bi'
+  irf: 'none' | 'gaussian' | 'measured'
+  irfSha256?: string
+  weighting: 'poisson' | 'given' | 'none'
+  component: 'tau1' | 'tau2'
+  parameters: Partial<Record<'a1' | 'tau1' | 'a2' | 'tau2' | 'offset' | 't0' | 'irfFwhm', { value: number, stderr?: number | null, fixed?: boolean }>>
+  chiSquaredReduced?: number | null
+  status: 'converged' | 'at-bound' | 'stalled'
+}
+export interface RateProvenance {
+  trace: TraceRef
+  fit: DecayFitRef
+  reference?: TraceRef
+  referenceFit?: DecayFitRef
+  derivation: 'k = 1/τ' | 'k_ET = 1/τ − 1/τ_ref'
+}
+
 export interface RateRecordV1 {
   system: { donor: Species, acceptor: Species, bridge?: Species, linkage: Linkage }
   process: ProcessKind
@@ -62,6 +89,7 @@ export interface RateRecordV1 {
     referenceLifetimeS?: number
     original?: Original
   }
+  provenance?: RateProvenance
   drivingForce?: {
     value: number
     uncertainty?: number

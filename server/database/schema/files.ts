@@ -2,7 +2,7 @@ import { sql } from 'drizzle-orm'
 import { index, integer, real, sqliteTable, text, uniqueIndex } from 'drizzle-orm/sqlite-core'
 import { timestamps } from './columns'
 import { users } from './accounts'
-import { datasetVersions } from './archive'
+import { datasets, datasetVersions } from './archive'
 
 // ── files, reference data, mail ─────────────────────────────────────────────────────────
 export const uploadedFiles = sqliteTable(
@@ -110,3 +110,32 @@ export const dataMigrations = sqliteTable('data_migration', {
     .notNull()
     .default(sql`'{}'`)
 })
+
+/**
+ * A time-resolved decay trace attached to a dataset (a record's rate may be fitted from it). The file as
+ * uploaded is an uploaded_file (sha256, fixity, backups); the parsed points are kept here for fitting.
+ */
+export const traces = sqliteTable(
+  'trace',
+  {
+    id: integer('id').primaryKey({ autoIncrement: true }),
+    datasetId: integer('dataset_id')
+      .notNull()
+      .references(() => datasets.id, { onDelete: 'cascade' }),
+    fileId: integer('file_id')
+      .notNull()
+      .references(() => uploadedFiles.id),
+    sha256: text('sha256').notNull(),
+    name: text('name').notNull(),
+    timeUnit: text('time_unit', { enum: ['fs', 'ps', 'ns', 'us', 'ms', 's'] }).notNull(),
+    signalKind: text('signal_kind', { enum: ['transient-absorption', 'emission', 'other'] }).notNull(),
+    wavelengthNm: real('wavelength_nm'),
+    pointCount: integer('point_count').notNull(),
+    hasSigma: integer('has_sigma', { mode: 'boolean' }).notNull(),
+    /** { times, signal, sigma? } as numbers, in the trace's time unit. */
+    points: text('points', { mode: 'json' }).notNull().$type<{ times: number[], signal: number[], sigma?: number[] }>(),
+    uploadedBy: text('uploaded_by').references(() => users.id),
+    ...timestamps
+  },
+  t => [uniqueIndex('trace_dataset_sha_unique').on(t.datasetId, t.sha256)]
+)

@@ -20,6 +20,8 @@ import datasetSchema from '../../../schemas/dataset.v1.json'
 import { CSV_HEADER, csvLine } from '../../../shared/records/csv'
 import { FROM, type Selection, pages, refreshCsvLines, withReadSnapshot } from './selection'
 import { bundleCff, readme } from './texts'
+import { tracesOfSelection } from './traces'
+import { readOriginal } from '../deposit/drafts'
 
 const { datasetVersions: versions, datasets, labs } = schema
 
@@ -143,6 +145,11 @@ export async function writeBundle (
       JSON.stringify({ ...datasetSchema, $id: publicUrl('/schemas/dataset.v1.json') }, null, 2)
     ])
   )
+  // the decay traces fitted rates name (by sha256), as uploaded: data/traces/<sha256>.<ext>
+  for (const t of await tracesOfSelection(sel)) {
+    if (signal.aborted) break
+    payload.push(await appendHashed(bag, `data/traces/${t.sha256}.${t.ext}`, [await readOriginal(t.storageKey)]))
+  }
   payload.push(await appendHashed(bag, 'data/CITATION.cff', [bundleCff(cited, sel)]))
   payload.push(await appendHashed(bag, 'data/README.md', [readme(cited, sel, count, header)]))
 

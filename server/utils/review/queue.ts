@@ -1,5 +1,6 @@
 /** The curator queue, and one submission as the curator sees it (report, diff, changes since a return, history). */
 import { inchiKeysOf, memberOf, systemMatches } from '../systems/systems'
+import { provenanceOf } from '../traces/traces'
 import { createHash } from 'node:crypto'
 import { and, desc, eq, inArray, ne, sql } from 'drizzle-orm'
 import { useDb, schema } from '../storage/db'
@@ -170,6 +171,8 @@ export async function reviewView (viewer: Viewer, datasetId: number) {
     ownLab: viewer.labIds.includes(dataset.labId),
     /** submitted records that measure a published system, with the record's z against its consensus */
     systemMatches: matches,
+    /** records whose rate was fitted from a trace: the traces, and whether the stated rate agrees with the fit */
+    traceChecks: await provenanceOf(datasetId, recs),
     lab: { id: lab!.id, name: lab!.name },
     version: {
       id: version.id,

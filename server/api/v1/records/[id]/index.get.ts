@@ -4,6 +4,7 @@ import { intParam } from '../../../../utils/http/params'
 import { structuresFor } from '../../../../utils/search/structures'
 import { systemOfRecord } from '../../../../utils/systems/systems'
 import { countUsage } from '../../../../utils/usage/counter'
+import { provenanceOf } from '../../../../utils/traces/traces'
 
 defineRouteMeta({
   openAPI: {
@@ -40,6 +41,7 @@ export default defineEventHandler(async (event) => {
   if (version.state === 'published') countUsage(event, dataset.id, 'investigation', `record:${record.id}`)
   const sys = version.state === 'published' ? await systemOfRecord(record.id) : undefined
   const mine = sys?.records.find(r => r.id === record.id)
+  const [fitted] = await provenanceOf(dataset.id, [record])
   return {
     id: record.id,
     position: record.position,
@@ -65,6 +67,8 @@ export default defineEventHandler(async (event) => {
           key: sys.key, labCount: sys.labCount, recordCount: sys.recordCount, consensus: sys.consensus,
           z: mine?.z ?? null, discrepant: mine?.discrepant ?? false
         }
-      : null
+      : null,
+    // a rate fitted from an attached trace: the traces (ids to read their points) and the check of the stated rate
+    provenance: fitted ?? null
   }
 })

@@ -1,0 +1,11 @@
+import { getViewer } from '../../../utils/accounts/auth'
+import { intParam } from '../../../utils/http/params'
+import { readTrace, traceSummary } from '../../../utils/traces/traces'
+
+defineRouteMeta({ openAPI: { tags: ['traces'], summary: 'One decay trace with its points (time in its unit, signal, σ when given)' } })
+
+export default defineEventHandler(async (event) => {
+  const id = intParam(event, 'id')
+  const t = await readTrace(await getViewer(event), id)
+  return { ...traceSummary(t), ...t.points }
+})
