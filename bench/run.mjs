@@ -5,6 +5,7 @@ import { spawnSync } from 'node:child_process'
 const word = process.argv[2] ?? ''
 const groups = [
   { file: 'bench/model-run.ts', names: ['model.curve.points_per_second', 'model.fit28.median_ms', 'model.fit5000.median_ms'] },
+  { file: 'bench/decay.ts', names: ['decay.fit5000_gaussian.median_ms', 'decay.fit5000_gaussian.max_ms', 'decay.fit5000_measured400.median_ms'] },
   { file: 'bench/upload.ts', names: ['upload.check100k.seconds', 'upload.check100k.peak_mb'] },
   { file: 'bench/search.ts', names: ['search.build100k.seconds', 'search.query.p95_ms', 'search.http.requests_per_second', 'search.server.rss_mb'] },
   { file: 'bench/bundle.ts', names: ['bundle.records100k.seconds', 'bundle.records100k.rss_growth_mb'] },

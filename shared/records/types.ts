@@ -55,13 +55,14 @@ export interface TraceRef {
   wavelengthNm?: number
   points: number
 }
+export type DecayParamName = 'a1' | 'tau1' | 'a2' | 'tau2' | 'offset' | 't0' | 'irfFwhm'
 export interface DecayFitRef {
   model: 'mono' | 'bi'
   irf: 'none' | 'gaussian' | 'measured'
   irfSha256?: string
   weighting: 'poisson' | 'given' | 'none'
   component: 'tau1' | 'tau2'
-  parameters: Partial<Record<'a1' | 'tau1' | 'a2' | 'tau2' | 'offset' | 't0' | 'irfFwhm', { value: number, stderr?: number | null, fixed?: boolean }>>
+  parameters: Partial<Record<DecayParamName, { value: number, stderr?: number | null, fixed?: boolean }>>
   chiSquaredReduced?: number | null
   status: 'converged' | 'at-bound' | 'stalled'
 }

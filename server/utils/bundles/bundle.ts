@@ -148,7 +148,7 @@ export async function writeBundle (
   // the decay traces fitted rates name (by sha256), as uploaded: data/traces/<sha256>.<ext>
   for (const t of await tracesOfSelection(sel)) {
     if (signal.aborted) break
-    payload.push(await appendHashed(bag, `data/traces/${t.sha256}.${t.ext}`, [await readOriginal(t.storageKey)]))
+    payload.push(await appendHashed(bag, `data/traces/${t.sha256}.${t.ext}`, [Buffer.from(await readOriginal(t.storageKey))]))
   }
   payload.push(await appendHashed(bag, 'data/CITATION.cff', [bundleCff(cited, sel)]))
   payload.push(await appendHashed(bag, 'data/README.md', [readme(cited, sel, count, header)]))

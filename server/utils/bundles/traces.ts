@@ -4,12 +4,19 @@ import { useDb } from '../storage/db'
 import { FROM, type Selection } from './selection'
 import { tracesByHash } from '../traces/traces'
 
-const PATHS = ['$.provenance.trace.sha256', '$.provenance.reference.sha256', '$.provenance.fit.irfSha256', '$.provenance.referenceFit.irfSha256']
+const PATHS = [
+  '$.provenance.trace.sha256',
+  '$.provenance.reference.sha256',
+  '$.provenance.fit.irfSha256',
+  '$.provenance.referenceFit.irfSha256'
+]
 
 export async function tracesOfSelection (sel: Selection): Promise<{ sha256: string, ext: string, storageKey: string }[]> {
   const db = await useDb()
-  const parts = PATHS.map(p => sql`select dataset_version.dataset_id as datasetId, json_extract(rate_record.data, ${p}) as h from ${FROM}
-    where ${sel.where} and json_extract(rate_record.data, '$.provenance') is not null`)
+  const parts = PATHS.map(
+    p => sql`select dataset_version.dataset_id as datasetId, json_extract(rate_record.data, ${p}) as h from ${FROM}
+    where ${sel.where} and json_extract(rate_record.data, '$.provenance') is not null`
+  )
   const rows = await db.all<{ datasetId: number, h: string | null }>(
     sql`select distinct datasetId, h from (${sql.join(parts, sql` union all `)}) where h is not null`
   )

@@ -15,6 +15,9 @@ import {
 import { PROBLEM_SCHEMA, RESPONSE_SCHEMAS } from './response-schemas'
 import { SYNONYM_BODY } from '../systems/systems'
 import { SAVED_SEARCH_BODY, SAVED_SEARCH_PATCH, UNSUBSCRIBE_BODY } from '../alerts/saved-searches'
+import { decayFitBodySchema } from '../model/decay-schemas'
+import { RATE_FROM_TRACE_BODY, TRACE_FIT_OPTIONS } from '../traces/trace-fit'
+import { TRACE_META_QUERY } from '../traces/traces'
 
 type Schema = { type?: string, required?: string[], properties?: Record<string, Record<string, unknown>> }
 interface Parameter { in: string, name: string, required?: boolean, schema?: unknown, description?: string }
@@ -43,7 +46,8 @@ const QUERIES: Record<string, Schema> = {
   'GET /api/v1/review/queue': REVIEW_QUEUE_QUERY,
   'GET /api/v1/systems': SYSTEM_LIST_QUERY,
   'GET /api/v1/datasets/{id}/usage': USAGE_QUERY,
-  'GET /api/v1/reports/datasets': USAGE_REPORT_QUERY
+  'GET /api/v1/reports/datasets': USAGE_REPORT_QUERY,
+  'POST /api/v1/datasets/{id}/traces': TRACE_META_QUERY
 }
 const BODIES: Record<string, unknown> = {
   'POST /api/v1/model/curve': curveBodySchema,
@@ -51,7 +55,10 @@ const BODIES: Record<string, unknown> = {
   'POST /api/v1/species-synonyms': SYNONYM_BODY,
   'POST /api/v1/account/saved-searches': SAVED_SEARCH_BODY,
   'PATCH /api/v1/account/saved-searches/{id}': SAVED_SEARCH_PATCH,
-  'POST /api/v1/account/saved-searches/unsubscribe': UNSUBSCRIBE_BODY
+  'POST /api/v1/account/saved-searches/unsubscribe': UNSUBSCRIBE_BODY,
+  'POST /api/v1/model/decay-fit': decayFitBodySchema,
+  'POST /api/v1/traces/{id}/fit': TRACE_FIT_OPTIONS,
+  'POST /api/v1/datasets/{id}/records/{recordId}/rate-from-trace': RATE_FROM_TRACE_BODY
 }
 /** Operations anyone may call; every other one needs a session cookie or an API token (else 401). */
 export const PUBLIC_OPERATIONS = new Set([
@@ -63,7 +70,8 @@ export const PUBLIC_OPERATIONS = new Set([
   'POST /api/v1/bundles', 'POST /api/v1/model/curve', 'POST /api/v1/model/fit',
   'POST /api/v1/account/signup', 'POST /api/v1/account/login-link', 'POST /api/v1/account/password-reset',
   'POST /api/v1/account/password-reset/confirm', 'POST /api/v1/account/verify',
-  'GET /api/v1/datasets/{id}/usage', 'POST /api/v1/account/saved-searches/unsubscribe'
+  'GET /api/v1/datasets/{id}/usage', 'POST /api/v1/account/saved-searches/unsubscribe',
+  'POST /api/v1/model/decay-fit', 'GET /api/v1/datasets/{id}/traces', 'GET /api/v1/traces/{id}', 'POST /api/v1/traces/{id}/fit'
 ])
 const ERRORS: Record<string, string> = {
   401: 'Not signed in, or the API token is not valid',

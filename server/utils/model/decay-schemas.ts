@@ -4,6 +4,9 @@ import { MAX_IRF_POINTS, MAX_TRACE_POINTS } from '../../../shared/physics/decay-
 import { rethrowPhysics } from '../http/errors'
 import { TRACE_FIT_OPTIONS } from '../traces/trace-fit'
 
+/** Decay fits one client may start per minute (all fitting routes together; common practice for CPU-bound routes). */
+export const DECAY_FITS_PER_MINUTE = 30
+
 const series = (max: number) => ({ type: 'array', maxItems: max, items: { type: 'number' } })
 const opts = TRACE_FIT_OPTIONS.properties
 export const decayFitBodySchema = {

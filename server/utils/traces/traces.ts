@@ -19,7 +19,11 @@ export const TRACE_META_QUERY = {
     wavelengthNm: { type: 'number', exclusiveMinimum: 0, maximum: 100000, description: 'probe or emission wavelength, nm' }
   }
 }
-export interface TraceMeta { timeUnit: 'fs' | 'ps' | 'ns' | 'us' | 'ms' | 's', signal: 'transient-absorption' | 'emission' | 'other', wavelengthNm?: number }
+export interface TraceMeta {
+  timeUnit: 'fs' | 'ps' | 'ns' | 'us' | 'ms' | 's'
+  signal: 'transient-absorption' | 'emission' | 'other'
+  wavelengthNm?: number
+}
 
 const T = schema.traces
 export const traceSummary = (t: typeof T.$inferSelect) => ({
@@ -37,17 +41,36 @@ export const traceSummary = (t: typeof T.$inferSelect) => ({
 
 /** Keeps a checked trace (the same file twice is one trace). */
 export async function storeTrace (
-  viewerId: string, datasetId: number, versionId: number,
-  file: { filename: string, type: string, data: Uint8Array }, meta: TraceMeta, points: TracePoints
+  viewerId: string,
+  datasetId: number,
+  versionId: number,
+  file: { filename: string, type: string, data: Uint8Array },
+  meta: TraceMeta,
+  points: TracePoints
 ) {
   const stored = await storeOriginal(versionId, viewerId, file.filename, file.type, file.data)
   const db = await useDb()
-  const [known] = await db.select().from(T).where(and(eq(T.datasetId, datasetId), eq(T.sha256, stored.sha256)))
+  const [known] = await db
+    .select()
+    .from(T)
+    .where(and(eq(T.datasetId, datasetId), eq(T.sha256, stored.sha256)))
   if (known) return { trace: traceSummary(known), existing: true }
-  const [row] = await db.insert(T).values({
-    datasetId, fileId: stored.id, sha256: stored.sha256, name: stored.name, timeUnit: meta.timeUnit, signalKind: meta.signal,
-    wavelengthNm: meta.wavelengthNm ?? null, pointCount: points.times.length, hasSigma: !!points.sigma, points, uploadedBy: viewerId
-  }).returning()
+  const [row] = await db
+    .insert(T)
+    .values({
+      datasetId,
+      fileId: stored.id,
+      sha256: stored.sha256,
+      name: stored.name,
+      timeUnit: meta.timeUnit,
+      signalKind: meta.signal,
+      wavelengthNm: meta.wavelengthNm ?? null,
+      pointCount: points.times.length,
+      hasSigma: !!points.sigma,
+      points,
+      uploadedBy: viewerId
+    })
+    .returning()
   return { trace: traceSummary(row!), existing: false }
 }
 

@@ -1,6 +1,7 @@
 import type { DecayFitRequest } from '../../../../shared/physics/decay-fit'
 import { readValidated } from '../../../utils/http/validation'
-import { computeDecayFit, decayFitBodySchema } from '../../../utils/model/decay-schemas'
+import { computeDecayFit, decayFitBodySchema, DECAY_FITS_PER_MINUTE } from '../../../utils/model/decay-schemas'
+import { limitRate } from '../../../utils/http/rate-limit'
 
 defineRouteMeta({
   openAPI: {
@@ -15,5 +16,7 @@ defineRouteMeta({
 })
 
 export default defineEventHandler(async (event) => {
+  // a fit of the largest trace takes about a second of CPU: a client gets a bounded share
+  limitRate(event, 'decay-fit', DECAY_FITS_PER_MINUTE, 60)
   return computeDecayFit(await readValidated<DecayFitRequest>(event, decayFitBodySchema))
 })

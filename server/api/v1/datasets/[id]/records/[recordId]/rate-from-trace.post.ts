@@ -1,5 +1,7 @@
 import { requireEditableDraft } from '../../../../../../utils/deposit/drafts'
 import { intParam } from '../../../../../../utils/http/params'
+import { limitRate } from '../../../../../../utils/http/rate-limit'
+import { DECAY_FITS_PER_MINUTE } from '../../../../../../utils/model/decay-schemas'
 import { readValidated } from '../../../../../../utils/http/validation'
 import { RATE_FROM_TRACE_BODY, rateFromTrace } from '../../../../../../utils/traces/trace-fit'
 
@@ -16,6 +18,7 @@ export default defineEventHandler(async (event) => {
   const id = intParam(event, 'id')
   const recordId = intParam(event, 'recordId')
   const { viewer, version } = await requireEditableDraft(event, id)
+  limitRate(event, 'decay-fit', DECAY_FITS_PER_MINUTE, 60)
   const body = await readValidated<Parameters<typeof rateFromTrace>[4]>(event, RATE_FROM_TRACE_BODY)
   return rateFromTrace(viewer, id, version.id, recordId, body)
 })
