@@ -28,6 +28,16 @@ export default defineNuxtConfig({
     oaiPageSize: 100,
     oaiAdminEmail: 'curators@crosspoint.example',
     dataDir: './data',
+    /** where stored files go: 'local' (dataDir) or 's3' (S3-compatible; without an endpoint a local fake S3 is started) */
+    storageDriver: 'local',
+    /** how often an instance looks for datasets other instances changed (search, systems) */
+    searchSyncSeconds: 2,
+    s3Endpoint: '',
+    s3Region: 'us-east-1',
+    s3Bucket: 'crosspoint',
+    s3AccessKeyId: '',
+    s3SecretAccessKey: '',
+    s3Prefix: '',
     /** saved-search digests: each search is mailed at most once per this many hours (0: only on demand) */
     alertsEveryHours: 24,
     /** how often the schedule looks for searches that are due */

@@ -57,6 +57,8 @@ export const datasetVersions = sqliteTable(
   t => [
     uniqueIndex('dataset_version_number_unique').on(t.datasetId, t.versionNumber),
     index('dataset_version_state_idx').on(t.state),
+    // every instance asks "what changed since" every few seconds (search sync)
+    index('dataset_version_updated_idx').on(t.updatedAt),
     uniqueIndex('dataset_version_doi_unique').on(t.doi)
   ]
 )

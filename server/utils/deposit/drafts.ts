@@ -1,6 +1,5 @@
 /** Drafts: who may change them, the solvent context, stored originals, and writing records in one transaction. */
 import { createHash, randomUUID } from 'node:crypto'
-import { join } from 'node:path'
 import { and, desc, eq, inArray, sql } from 'drizzle-orm'
 import type { H3Event } from 'h3'
 import { useDb, schema, type Tx } from '../storage/db'
@@ -12,7 +11,7 @@ import { recordColumns } from '../../../shared/records/record-columns'
 import type { RateRecordV1 } from '../../../shared/records/types'
 import type { IngestContext, SchemaValidator } from '../../../shared/records/ingest'
 import { afterDatasetChange } from '../search/search'
-import { dataDirectory } from '../storage/fixity'
+import { KEY_PATTERN, useFileStore } from '../storage/files'
 
 async function touchVersion (versionId: number): Promise<void> {
   const db = await useDb()
@@ -69,7 +68,7 @@ export async function requireEditableDraft (
   return { viewer, dataset, version }
 }
 
-/** Keeps an uploaded original under DATA_DIR with its sha256; the key is ours, never the file name. */
+/** Keeps an uploaded original in the file store with its sha256; the key is ours, never the file name. */
 export async function storeOriginal (
   versionId: number | null,
   uploadedBy: string,
@@ -80,10 +79,7 @@ export async function storeOriginal (
   const sha256 = createHash('sha256').update(buf).digest('hex')
   const ext = (name.match(/\.(csv|tsv|txt|xlsx|json)$/i)?.[1] ?? 'bin').toLowerCase()
   const storageKey = `uploads/${versionId ?? 'none'}/${randomUUID()}.${ext}`
-  const { mkdir, writeFile } = await import('node:fs/promises')
-  const path = join(dataDirectory(), storageKey)
-  await mkdir(join(path, '..'), { recursive: true })
-  await writeFile(path, buf)
+  await (await useFileStore()).put(storageKey, buf, mediaType)
   const db = await useDb()
   const [row] = await db
     .insert(schema.uploadedFiles)
@@ -101,9 +97,10 @@ export async function storeOriginal (
 }
 
 export async function readOriginal (storageKey: string): Promise<Uint8Array> {
-  if (!/^uploads\/[\w-]+\/[\w-]+\.\w+$/.test(storageKey)) throw httpError(400, 'Bad storage key')
-  const { readFile } = await import('node:fs/promises')
-  return new Uint8Array(await readFile(join(dataDirectory(), storageKey)))
+  if (!KEY_PATTERN.test(storageKey)) throw httpError(400, 'Bad storage key')
+  const data = await (await useFileStore()).get(storageKey)
+  if (!data) throw httpError(500, `A stored file is missing (${storageKey}); the fixity check names it for the admins`)
+  return data
 }
 
 /** Appends (or, with replace, swaps in) records of a draft version in one transaction; all or nothing. */

@@ -8,6 +8,7 @@ import { copyFile, mkdir, readdir, readFile, rename, rm, stat, writeFile } from 
 import { basename, dirname, isAbsolute, join, relative, resolve } from 'node:path'
 import { createClient } from '@libsql/client'
 import { assertIntact } from './db'
+import { KEY_PATTERN, LocalStore, type FileStore } from './files'
 
 export function resolveFileUrl (url: string): string {
   if (!url.startsWith('file:'))
@@ -43,7 +44,8 @@ export interface BackupResult {
   publishedVersions: number
 }
 
-export async function backup (opts: { databaseUrl: string, dataDir: string, backupDir: string }): Promise<BackupResult> {
+/** Backs up the database and the stored files of `store` (default: the local folder dataDir). */
+export async function backup (opts: { databaseUrl: string, dataDir: string, backupDir: string, store?: FileStore }): Promise<BackupResult> {
   const stamp = new Date().toISOString().replace(/[:.]/g, '-')
   const folder = join(resolve(opts.backupDir), `crosspoint-${stamp}`)
   await mkdir(join(folder, 'files'), { recursive: true })
@@ -63,11 +65,14 @@ export async function backup (opts: { databaseUrl: string, dataDir: string, back
     finally {
       copy.close()
     }
-    const uploadsDir = join(resolve(opts.dataDir), 'uploads')
-    for (const f of await listFiles(uploadsDir)) {
-      const dest = join(folder, 'files', 'uploads', relative(uploadsDir, f))
+    const store = opts.store ?? new LocalStore(resolve(opts.dataDir))
+    for await (const f of store.list('uploads/')) {
+      if (!KEY_PATTERN.test(f.key)) continue
+      const data = await store.get(f.key)
+      if (!data) continue
+      const dest = join(folder, 'files', f.key)
       await mkdir(dirname(dest), { recursive: true })
-      await copyFile(f, dest)
+      await writeFile(dest, data)
     }
     const all = (await listFiles(folder)).filter(f => !f.endsWith('SHA256SUMS'))
     const lines: string[] = []
@@ -150,6 +155,8 @@ export async function restore (opts: {
   folder: string
   databaseUrl: string
   dataDir: string
+  /** where the files go back to (default: the local folder dataDir) */
+  store?: FileStore
 }): Promise<{ kept: string }> {
   await verifyBackup(opts.folder)
   const target = resolveFileUrl(opts.databaseUrl)
@@ -178,11 +185,8 @@ export async function restore (opts: {
   }
   for (const ext of ['-wal', '-shm']) await rename(target + ext, kept + ext).catch(() => {})
   await copyFile(join(opts.folder, 'crosspoint.db'), target)
-  const uploads = join(resolve(opts.dataDir), 'uploads')
-  for (const f of await listFiles(join(opts.folder, 'files', 'uploads'))) {
-    const dest = join(uploads, relative(join(opts.folder, 'files', 'uploads'), f))
-    await mkdir(dirname(dest), { recursive: true })
-    await copyFile(f, dest)
-  }
+  const store = opts.store ?? new LocalStore(resolve(opts.dataDir))
+  const files = join(opts.folder, 'files')
+  for (const f of await listFiles(join(files, 'uploads'))) await store.put(relative(files, f).split('\\').join('/'), await readFile(f))
   return { kept }
 }

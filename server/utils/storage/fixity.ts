@@ -1,7 +1,7 @@
-/** Fixity: re-hash every stored upload and compare with the sha256 recorded when it arrived. */
+/** Fixity: re-hash every stored upload (whichever file store holds it) and compare with the sha256 recorded when it arrived. */
 import { createHash } from 'node:crypto'
-import { readFile } from 'node:fs/promises'
-import { join, resolve } from 'node:path'
+import { resolve } from 'node:path'
+import { useFileStore } from './files'
 import { useDb, schema } from './db'
 
 export function dataDirectory (): string {
@@ -18,9 +18,10 @@ export function dataDirectory (): string {
 export async function checkFixity () {
   const db = await useDb()
   const files = await db.select().from(schema.uploadedFiles)
+  const store = await useFileStore()
   const problems: { id: number, name: string, storageKey: string, problem: string }[] = []
   for (const f of files) {
-    const buf = await readFile(join(dataDirectory(), f.storageKey)).catch(() => null)
+    const buf = await store.get(f.storageKey).catch(() => null)
     if (!buf) {
       problems.push({ id: f.id, name: f.name, storageKey: f.storageKey, problem: 'missing' })
       continue
@@ -34,5 +35,5 @@ export async function checkFixity () {
         problem: `changed: sha256 ${sha.slice(0, 12)}… (recorded ${f.sha256.slice(0, 12)}…)`
       })
   }
-  return { checkedAt: new Date().toISOString(), files: files.length, problems }
+  return { checkedAt: new Date().toISOString(), files: files.length, store: store.describe(), problems }
 }

@@ -2,6 +2,7 @@ import { requireRole } from '../../../utils/accounts/auth'
 import { audit } from '../../../utils/storage/audit'
 import { backup } from '../../../utils/storage/backup'
 import { dataDirectory } from '../../../utils/storage/fixity'
+import { useFileStore } from '../../../utils/storage/files'
 
 defineRouteMeta({
   openAPI: {
@@ -16,7 +17,8 @@ export default defineEventHandler(async (event) => {
   const res = await backup({
     databaseUrl: rc.databaseUrl,
     dataDir: dataDirectory(),
-    backupDir: process.env.NUXT_BACKUP_DIR ?? `${dataDirectory()}/backups`
+    backupDir: process.env.NUXT_BACKUP_DIR ?? `${dataDirectory()}/backups`,
+    store: await useFileStore()
   })
   await audit(admin.id, 'admin.backup', 'system', 'database', { folder: res.folder, records: res.records })
   return res

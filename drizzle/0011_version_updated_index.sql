@@ -1,0 +1,1 @@
+CREATE INDEX `dataset_version_updated_idx` ON `dataset_version` (`updated_at`);
