@@ -9,7 +9,7 @@ import { report } from './report'
 const dir = mkdtempSync(join(tmpdir(), 'crosspoint-bench-'))
 process.env.NUXT_DATABASE_URL = `file:${join(dir, 'bench.db')}`
 const { openDatabase, schema } = await import('../server/utils/storage/db')
-const { writeBundle } = await import('../server/utils/bundles')
+const { writeBundle } = await import('../server/utils/bundles/bundle')
 const { DATASETS, demoRecords } = await import('../scripts/lib/scenario')
 const { recordColumns } = await import('../shared/records/record-columns')
 

@@ -91,7 +91,7 @@ if (want('server.start1m') || want('search.server1m') || want('bundle.records1m'
   process.stderr.write(`(wrote ${N} records in ${((performance.now() - t0) / 1000).toFixed(0)} s)\n`)
 
   if (want('bundle.records1m')) {
-    const { writeBundle } = await import('../server/utils/bundles')
+    const { writeBundle } = await import('../server/utils/bundles/bundle')
     let bytes = 0
     const sink = new Writable({ write (chunk, _e, cb) { bytes += chunk.length; cb() } })
     const base = process.memoryUsage().rss

@@ -8,7 +8,7 @@ import { httpError } from '../utils/http/errors'
 import { MAX_AUTH_BYTES, MAX_JSON_BYTES, MAX_JSON_DEPTH, readCappedBody, jsonDepth, tooLarge } from '../utils/http/body'
 import { MAX_FILE_BYTES } from '../utils/deposit/parse'
 
-const UPLOAD_ROUTE = /^\/api\/v1\/datasets\/\d+\/(uploads\/check|traces)\/?(\?|$)/
+const UPLOAD_ROUTE = /^\/api\/v1\/datasets\/\d+\/(uploads\/check|uploads\/inspect|traces)\/?(\?|$)/
 /** RFC 8058 one-click unsubscribe: the mail provider POSTs "List-Unsubscribe=One-Click" form-encoded. */
 const UNSUBSCRIBE_ROUTE = /^\/api\/v1\/account\/saved-searches\/unsubscribe\/?(\?|$)/
 

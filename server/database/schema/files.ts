@@ -16,6 +16,8 @@ export const uploadedFiles = sqliteTable(
     sha256: text('sha256').notNull(),
     storageKey: text('storage_key').notNull(),
     mediaType: text('media_type'),
+    /** How a spreadsheet was read (the mapping confirmed at upload), kept as provenance beside the original. */
+    mapping: text('mapping', { mode: 'json' }).$type<Record<string, unknown>>(),
     /** When its rows were added to the draft: an upload is committed once (a retry after a lost answer adds nothing). */
     committedAt: integer('committed_at', { mode: 'timestamp_ms' }),
     ...timestamps
@@ -138,4 +140,20 @@ export const traces = sqliteTable(
     ...timestamps
   },
   t => [uniqueIndex('trace_dataset_sha_unique').on(t.datasetId, t.sha256)]
+)
+
+/** A lab's saved ways of reading its own spreadsheets (shared/records/mapping.ts), found again by the header row. */
+export const columnMappings = sqliteTable(
+  'column_mapping',
+  {
+    id: integer('id').primaryKey({ autoIncrement: true }),
+    labId: integer('lab_id').notNull(),
+    name: text('name').notNull(),
+    /** The header row it was made for (headerSignature). */
+    signature: text('signature').notNull(),
+    mapping: text('mapping', { mode: 'json' }).notNull().$type<Record<string, unknown>>(),
+    createdBy: text('created_by').references(() => users.id),
+    ...timestamps
+  },
+  t => [uniqueIndex('column_mapping_lab_name_unique').on(t.labId, t.name), index('column_mapping_signature_idx').on(t.labId, t.signature)]
 )

@@ -21,7 +21,7 @@ import { CSV_HEADER, csvLine } from '../../../shared/records/csv'
 import { FROM, type Selection, pages, refreshCsvLines, withReadSnapshot } from './selection'
 import { bundleCff, readme } from './texts'
 import { tracesOfSelection } from './traces'
-import { readOriginal } from '../deposit/drafts'
+import { readOriginal } from '../storage/originals'
 
 const { datasetVersions: versions, datasets, labs } = schema
 

@@ -11,6 +11,7 @@ import {
 import type { RateRecordV1 } from '../../../shared/records/types'
 import { FileProblem, MAX_ROWS, detectKind, parseCsv, parseJsonRecords, parseXlsx, type Table } from './parse'
 import { structureIssues } from '../search/structures'
+import { applyMapping, proposeMapping, type Grid, type Mapping } from '../../../shared/records/mapping'
 
 export interface CheckResult {
   kind: 'csv' | 'xlsx' | 'json'
@@ -51,8 +52,7 @@ function checkHeaders (headers: string[]): { keys: (string | null)[], units: Rec
       return null
     }
     seen.set(key, i)
-    if (unit && !def.units)
-      issues.push({ row: 1, column: raw, path: '/header', message: `column "${key}" takes no unit` })
+    if (unit && !def.units) issues.push({ row: 1, column: raw, path: '/header', message: `column "${key}" takes no unit` })
     if (unit && def.units && !def.units.includes(unit))
       issues.push({
         row: 1,
@@ -76,10 +76,60 @@ function checkHeaders (headers: string[]): { keys: (string | null)[], units: Rec
   if (issues.length)
     throw new FileProblem(
       422,
-      unknown.length ? `Unknown ${unknown.length === 1 ? 'column' : 'columns'}: ${unknown.join(', ')}` : 'The header row has problems',
+      unknown.length
+        ? `Unknown ${unknown.length === 1 ? 'column' : 'columns'}: ${unknown.join(', ')}`
+        : 'The header row has problems',
       issues
     )
   return { keys, units }
+}
+
+/** A mapping that names columns, rows or units the file does not have, each named. */
+function mappingProblems (grid: Grid, m: Mapping): RowIssue[] {
+  const out: RowIssue[] = []
+  const header = grid[m.headerRow - 1]
+  if (!header)
+    return [{ path: '/mapping/headerRow', message: `the sheet has ${grid.length} rows; there is no row ${m.headerRow}` }]
+  if (m.firstDataRow <= m.headerRow) out.push({ path: '/mapping/firstDataRow', message: 'the data start after the header row' })
+  if (m.columns.length > header.length)
+    out.push({
+      path: '/mapping/columns',
+      message: `the header row has ${header.length} columns; the mapping names ${m.columns.length}`
+    })
+  const seen = new Map<string, number>()
+  m.columns.forEach((c, i) => {
+    if (!c.field) return
+    const def = COLUMN_BY_KEY.get(c.field)
+    if (!def)
+      out.push({
+        path: `/mapping/columns/${i}/field`,
+        column: String(header[i] ?? ''),
+        message: `"${c.field}" is not a field of the open format`
+      })
+    else if (c.unit && !def.units?.includes(c.unit))
+      out.push({
+        path: `/mapping/columns/${i}/unit`,
+        column: String(header[i] ?? ''),
+        message: `unit "${c.unit}" is not one of ${(def.units ?? ['none']).join(', ')}`
+      })
+    if (seen.has(c.field))
+      out.push({
+        path: `/mapping/columns/${i}/field`,
+        column: String(header[i] ?? ''),
+        message: `"${c.field}" is also column ${seen.get(c.field)! + 1}`
+      })
+    seen.set(c.field, i)
+  })
+  for (const [k, v] of Object.entries(m.constants ?? {})) {
+    const def = COLUMN_BY_KEY.get(k)
+    if (!def) out.push({ path: `/mapping/constants/${k}`, message: `"${k}" is not a field of the open format` })
+    else if (v.unit && !def.units?.includes(v.unit))
+      out.push({
+        path: `/mapping/constants/${k}/unit`,
+        message: `unit "${v.unit}" is not one of ${(def.units ?? ['none']).join(', ')}`
+      })
+  }
+  return out
 }
 
 type Checked = Omit<CheckResult, 'kind'> & { origins: { path: string, row?: number }[] }
@@ -106,12 +156,7 @@ async function withStructures ({ origins, ...res }: Checked): Promise<Omit<Check
   }
 }
 
-function checkTable (
-  t: Table,
-  validate: SchemaValidator,
-  ctx: IngestContext,
-  onProgress?: (done: number) => void
-): Checked {
+function checkTable (t: Table, validate: SchemaValidator, ctx: IngestContext, onProgress?: (done: number) => void): Checked {
   if (t.rows.length > MAX_ROWS)
     throw new FileProblem(413, `Too many rows: ${t.rows.length} (at most ${MAX_ROWS} per upload)`, [
       { path: '/file', message: 'too many rows' }
@@ -159,13 +204,31 @@ function checkTable (
   return { rowCount: t.rows.length, records, origins, issues, issueCount, warnings, warningCount, derivedCount }
 }
 
-/** Checks a whole file; throws FileProblem for problems with the file itself. */
+/** The sheet as read (every row, the header among them), for the mapping step. */
+export async function readGrid (name: string, mediaType: string | undefined, buf: Uint8Array, sheet?: string) {
+  const kind = detectKind(name, mediaType)
+  if (kind === 'json')
+    throw new FileProblem(422, 'A JSON file is records in the open format; it needs no mapping', [
+      { path: '/mapping', message: 'not a sheet' }
+    ])
+  // empty lines are kept here, so that row numbers stay the file's own
+  const t = kind === 'csv' ? { ...parseCsv(buf, false), sheets: [] as string[], sheet: undefined } : await parseXlsx(buf, sheet)
+  return { kind, grid: [t.headers, ...t.rows] as Grid, sheets: t.sheets, sheet: t.sheet }
+}
+
+/**
+ * Checks a whole file; throws FileProblem for problems with the file itself. With a mapping the sheet is read as
+ * the mapping says (header row, units, decimal comma, columns, constants) and every problem is named by the
+ * file's own row number and header; without one, a header the template does not know is refused with a
+ * proposed mapping beside the problems.
+ */
 export async function checkFile (
   name: string,
   mediaType: string | undefined,
   buf: Uint8Array,
   validate: SchemaValidator,
-  ctx: IngestContext
+  ctx: IngestContext,
+  mapping?: Mapping
 ): Promise<CheckResult> {
   const kind = detectKind(name, mediaType)
   if (kind === 'json') {
@@ -176,8 +239,33 @@ export async function checkFile (
       ])
     return { kind, ...(await checkRecords(recs, validate, ctx, '/records')) }
   }
+  if (mapping) {
+    const { grid } = await readGrid(name, mediaType, buf, mapping.sheet)
+    const problems = mappingProblems(grid, mapping)
+    if (problems.length) throw new FileProblem(422, 'The mapping does not fit the file', problems)
+    const applied = applyMapping(grid, mapping)
+    const checked = checkTable({ headers: applied.headers, rows: applied.rows }, validate, ctx)
+    // rows and columns as the file names them
+    const place = (i: RowIssue): RowIssue => ({
+      ...i,
+      ...(i.row !== undefined ? { row: applied.rowNumbers[i.row - 2] ?? i.row } : {}),
+      ...(i.column ? { column: applied.columnNames[i.column] ?? i.column } : {})
+    })
+    const res = await withStructures({
+      ...checked,
+      origins: checked.origins.map(o => ({ ...o, row: o.row !== undefined ? applied.rowNumbers[o.row - 2] : o.row }))
+    })
+    return { kind, ...res, issues: res.issues.map(place), warnings: res.warnings.map(place) }
+  }
   const table = kind === 'csv' ? parseCsv(buf) : await parseXlsx(buf)
-  return { kind, ...(await withStructures(checkTable(table, validate, ctx))) }
+  try {
+    return { kind, ...(await withStructures(checkTable(table, validate, ctx))) }
+  }
+  catch (e) {
+    if (e instanceof FileProblem && e.issues.some(i => i.path === '/header'))
+      e.proposal = proposeMapping([table.headers, ...table.rows])
+    throw e
+  }
 }
 
 /** Canonical records (JSON upload or the API): schema + shared rules, issues addressed by pointer and index. */
@@ -197,8 +285,7 @@ export async function checkRecords (
     const v = validateRecord(rec, validate, ctx)
     for (const x of v.issues) {
       issueCount++
-      if (issues.length < MAX_LISTED)
-        issues.push({ ...x, row: i + 1, path: `${base}/${i}${x.path === '/' ? '' : x.path}` })
+      if (issues.length < MAX_LISTED) issues.push({ ...x, row: i + 1, path: `${base}/${i}${x.path === '/' ? '' : x.path}` })
     }
     for (const w of v.warnings) {
       warningCount++

@@ -1,5 +1,5 @@
 /** Drafts: who may change them, the solvent context, stored originals, and writing records in one transaction. */
-import { createHash, randomUUID } from 'node:crypto'
+import { randomUUID } from 'node:crypto'
 import { and, desc, eq, inArray, sql } from 'drizzle-orm'
 import type { H3Event } from 'h3'
 import { useDb, schema, type Tx } from '../storage/db'
@@ -11,7 +11,6 @@ import { recordColumns } from '../../../shared/records/record-columns'
 import type { RateRecordV1 } from '../../../shared/records/types'
 import type { IngestContext, SchemaValidator } from '../../../shared/records/ingest'
 import { afterDatasetChange } from '../search/search'
-import { KEY_PATTERN, useFileStore } from '../storage/files'
 
 async function touchVersion (versionId: number): Promise<void> {
   const db = await useDb()
@@ -68,40 +67,7 @@ export async function requireEditableDraft (
   return { viewer, dataset, version }
 }
 
-/** Keeps an uploaded original in the file store with its sha256; the key is ours, never the file name. */
-export async function storeOriginal (
-  versionId: number | null,
-  uploadedBy: string,
-  name: string,
-  mediaType: string | undefined,
-  buf: Uint8Array
-) {
-  const sha256 = createHash('sha256').update(buf).digest('hex')
-  const ext = (name.match(/\.(csv|tsv|txt|xlsx|json)$/i)?.[1] ?? 'bin').toLowerCase()
-  const storageKey = `uploads/${versionId ?? 'none'}/${randomUUID()}.${ext}`
-  await (await useFileStore()).put(storageKey, buf, mediaType)
-  const db = await useDb()
-  const [row] = await db
-    .insert(schema.uploadedFiles)
-    .values({
-      versionId,
-      uploadedBy,
-      name: name.slice(0, 255),
-      size: buf.byteLength,
-      sha256,
-      storageKey,
-      mediaType: mediaType ?? null
-    })
-    .returning()
-  return row!
-}
-
-export async function readOriginal (storageKey: string): Promise<Uint8Array> {
-  if (!KEY_PATTERN.test(storageKey)) throw httpError(400, 'Bad storage key')
-  const data = await (await useFileStore()).get(storageKey)
-  if (!data) throw httpError(500, `A stored file is missing (${storageKey}); the fixity check names it for the admins`)
-  return data
-}
+export { readOriginal, storeOriginal } from '../storage/originals'
 
 /** Appends (or, with replace, swaps in) records of a draft version in one transaction; all or nothing. */
 export async function writeRecords (

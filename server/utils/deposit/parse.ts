@@ -15,6 +15,8 @@ export interface Table {
   rows: (string | number | null)[][]
 }
 export class FileProblem extends Error {
+  /** For a header the template does not know: how the file could be read (shared/records/mapping.ts). */
+  proposal?: unknown
   constructor (
     readonly status: number,
     message: string,
@@ -88,9 +90,40 @@ export function firstInvalidUtf8 (buf: Uint8Array): number {
   return n
 }
 
-export function parseCsv (buf: Uint8Array): Table {
+/**
+ * The separator a sheet uses: of comma, semicolon and tab, the one that splits the most of its first 200 lines into
+ * the same number of cells (a title block above the table, or decimal commas, do not mislead it).
+ */
+export function guessDelimiter (text: string): string {
+  const lines = text
+    .slice(0, 200_000)
+    .split(/\r?\n/, 200)
+    .filter(l => l.trim())
+  let best = ','
+  let bestScore = -1
+  for (const d of [';', '\t', ',']) {
+    const counts = new Map<number, number>()
+    for (const l of lines) {
+      const n = l.split(d).length - 1
+      if (n) counts.set(n, (counts.get(n) ?? 0) + 1)
+    }
+    const score = Math.max(0, ...counts.values())
+    if (score > bestScore) {
+      best = d
+      bestScore = score
+    }
+  }
+  return best
+}
+
+export function parseCsv (buf: Uint8Array, skipEmpty = true): Table {
   const text = decodeUtf8(buf)
-  const res = Papa.parse<string[]>(text, { delimitersToGuess: [',', ';', '\t'], skipEmptyLines: 'greedy' })
+  const res = Papa.parse<string[]>(
+    text,
+    skipEmpty
+      ? { delimitersToGuess: [',', ';', '\t'], skipEmptyLines: 'greedy' }
+      : { delimiter: guessDelimiter(text), skipEmptyLines: false }
+  )
   const bad = res.errors.filter(e => e.type === 'Quotes')
   if (bad.length)
     throw new FileProblem(
@@ -120,9 +153,7 @@ async function checkExpandedSize (buf: Uint8Array): Promise<void> {
     let mine = 0
     entry.ondata = (err, chunk) => {
       if (err) {
-        problem ??= new FileProblem(422, 'The file is not a readable XLSX workbook', [
-          { path: '/file', message: 'not XLSX' }
-        ])
+        problem ??= new FileProblem(422, 'The file is not a readable XLSX workbook', [{ path: '/file', message: 'not XLSX' }])
         return
       }
       total += chunk.length
@@ -158,9 +189,7 @@ async function checkExpandedSize (buf: Uint8Array): Promise<void> {
     }
   }
   catch {
-    problem ??= new FileProblem(422, 'The file is not a readable XLSX workbook', [
-      { path: '/file', message: 'not XLSX' }
-    ])
+    problem ??= new FileProblem(422, 'The file is not a readable XLSX workbook', [{ path: '/file', message: 'not XLSX' }])
   }
   if (problem) throw problem
 }
@@ -170,7 +199,7 @@ async function checkExpandedSize (buf: Uint8Array): Promise<void> {
  * the row and cell caps; the sheet named "records" is read, else the first. Formula and error cells are
  * refused, each by its address.
  */
-export async function parseXlsx (buf: Uint8Array): Promise<Table> {
+export async function parseXlsx (buf: Uint8Array, want?: string): Promise<Table & { sheets: string[], sheet: string }> {
   if (buf.length < 4 || buf[0] !== 0x50 || buf[1] !== 0x4b)
     throw new FileProblem(422, 'The file is not a readable XLSX workbook', [{ path: '/file', message: 'not XLSX' }])
   await checkExpandedSize(buf)
@@ -180,10 +209,12 @@ export async function parseXlsx (buf: Uint8Array): Promise<Table> {
   )
   const issues: RowIssue[] = []
   let chosen: { name: string, rows: (string | number | null)[][] } | null = null
+  const sheets: string[] = []
   let cells = 0
   try {
     for await (const ws of reader as unknown as AsyncIterable<AsyncIterable<ExcelJS.Row> & { name: string }>) {
-      const isRecords = ws.name === 'records'
+      sheets.push(ws.name)
+      const isRecords = want ? ws.name === want : ws.name === 'records'
       if (chosen && !isRecords) {
         for await (const _row of ws) {
           void _row
@@ -202,11 +233,9 @@ export async function parseXlsx (buf: Uint8Array): Promise<Table> {
         const width = Math.max(header.length, row.cellCount)
         cells += width
         if (cells > MAX_XLSX_CELLS)
-          throw new FileProblem(
-            413,
-            `The sheet has more than ${MAX_XLSX_CELLS} cells; save the data as CSV, or split it`,
-            [{ path: '/file', message: 'too many cells' }]
-          )
+          throw new FileProblem(413, `The sheet has more than ${MAX_XLSX_CELLS} cells; save the data as CSV, or split it`, [
+            { path: '/file', message: 'too many cells' }
+          ])
         const vals: (string | number | null)[] = []
         for (let c = 1; c <= width; c++) {
           const cell = row.getCell(c)
@@ -244,7 +273,6 @@ export async function parseXlsx (buf: Uint8Array): Promise<Table> {
         rows.push(vals)
       }
       if (!chosen || isRecords) chosen = { name: ws.name, rows }
-      if (isRecords) break
     }
   }
   catch (e) {
@@ -252,10 +280,14 @@ export async function parseXlsx (buf: Uint8Array): Promise<Table> {
     throw new FileProblem(422, 'The file is not a readable XLSX workbook', [{ path: '/file', message: 'not XLSX' }])
   }
   if (!chosen) throw new FileProblem(422, 'The workbook has no sheet', [{ path: '/file', message: 'no sheet' }])
+  if (want && chosen.name !== want)
+    throw new FileProblem(422, `The workbook has no sheet "${want}"; it has ${sheets.join(', ')}`, [
+      { path: '/mapping/sheet', message: 'no such sheet' }
+    ])
   if (issues.length) throw new FileProblem(422, `The workbook has ${countOf(issues.length, 'formula or error cell')}`, issues)
   const [headers, ...rows] = chosen.rows
   if (!headers) throw new FileProblem(422, 'The sheet is empty', [{ path: '/file', message: 'no header row' }])
-  return { headers: headers.map(h => String(h ?? '')), rows }
+  return { headers: headers.map(h => String(h ?? '')), rows, sheets, sheet: chosen.name }
 }
 
 export function parseJsonRecords (buf: Uint8Array): unknown[] {
@@ -265,9 +297,7 @@ export function parseJsonRecords (buf: Uint8Array): unknown[] {
   }
   catch (e) {
     if (e instanceof FileProblem) throw e
-    throw new FileProblem(422, `The file is not valid JSON: ${(e as Error).message}`, [
-      { path: '/file', message: 'not JSON' }
-    ])
+    throw new FileProblem(422, `The file is not valid JSON: ${(e as Error).message}`, [{ path: '/file', message: 'not JSON' }])
   }
   const records = Array.isArray(data) ? data : (data as { records?: unknown })?.records
   if (!Array.isArray(records))

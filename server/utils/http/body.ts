@@ -94,6 +94,8 @@ export interface UploadedFile {
   filename: string
   type: string
   data: Uint8Array
+  /** Small text fields sent beside the file (e.g. "mapping"), at most 64 kB each. */
+  fields: Record<string, string>
 }
 
 /**
@@ -112,7 +114,7 @@ export async function readUploadedFile (event: H3Event, maxBytes: number): Promi
     bb = Busboy({
       headers: req.headers,
       preservePath: true,
-      limits: { fileSize: maxBytes, files: 1, fields: 8, parts: 10, fieldSize: 4096, headerPairs: 20 }
+      limits: { fileSize: maxBytes, files: 1, fields: 8, parts: 10, fieldSize: 64 * 1024, headerPairs: 20 }
     })
   }
   catch {
@@ -127,6 +129,14 @@ export async function readUploadedFile (event: H3Event, maxBytes: number): Promi
         resolve(v)
       }
     }
+    const fields: Record<string, string> = {}
+    bb.on('field', (name, value, info) => {
+      if (info.valueTruncated) {
+        req.unpipe(bb)
+        done('too-large')
+      }
+      else fields[name] = value
+    })
     bb.on('file', (name, stream, info) => {
       if (name !== 'file') {
         stream.resume()
@@ -148,7 +158,8 @@ export async function readUploadedFile (event: H3Event, maxBytes: number): Promi
           file = {
             filename: info.filename ?? 'upload',
             type: info.mimeType ?? '',
-            data: new Uint8Array(Buffer.concat(chunks, size))
+            data: new Uint8Array(Buffer.concat(chunks, size)),
+            fields
           }
       })
     })

@@ -1,7 +1,7 @@
 /** Traces of a dataset: kept once per file (by sha256), read by whoever may see the dataset, fitted on request. */
 import { and, asc, eq, inArray } from 'drizzle-orm'
 import { schema, useDb } from '../storage/db'
-import { storeOriginal } from '../deposit/drafts'
+import { storeOriginal } from '../storage/originals'
 import { getDataset } from '../publishing/archive'
 import { httpError } from '../http/errors'
 import type { Viewer } from '../accounts/auth'

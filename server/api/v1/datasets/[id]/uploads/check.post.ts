@@ -1,21 +1,20 @@
 import type { H3Event } from 'h3'
 import { checkFile } from '../../../../../utils/deposit/check'
-import {
-  ingestContext,
-  recordValidator,
-  requireEditableDraft,
-  storeOriginal
-} from '../../../../../utils/deposit/drafts'
+import { ingestContext, recordValidator, requireEditableDraft, storeOriginal } from '../../../../../utils/deposit/drafts'
 import { FileProblem, MAX_FILE_BYTES } from '../../../../../utils/deposit/parse'
 import { httpError } from '../../../../../utils/http/errors'
 import { discardBody, readUploadedFile } from '../../../../../utils/http/body'
 import { intParam } from '../../../../../utils/http/params'
+import { mappingField } from '../../../../../utils/deposit/mappings'
+import { schema, useDb } from '../../../../../utils/storage/db'
+import { eq } from 'drizzle-orm'
 
 defineRouteMeta({
   openAPI: {
     tags: ['deposit'],
     summary:
-      'Step 1 of an upload: check a CSV, XLSX or JSON file (multipart field "file") and keep it; nothing is added yet',
+      'Step 1 of an upload: check a CSV, XLSX or JSON file (multipart field "file", optionally "mapping": how to read a sheet of '
+      + 'your own, see /uploads/inspect) and keep it; nothing is added yet. An unknown header row answers 422 with a proposed mapping',
     responses: {
       200: { description: '{ upload, rowCount, acceptedCount, issues, warnings, preview }' },
       413: { description: 'File or row count too large' },
@@ -57,9 +56,18 @@ async function checkUpload (event: H3Event, viewerId: string, versionId: number)
   const file = await readUploadedFile(event, MAX_FILE_BYTES)
   const buf = file.data
   try {
-    const res = await checkFile(file.filename, file.type, buf, recordValidator(), await ingestContext())
+    const mapping = mappingField(file.fields.mapping)
+    const res = await checkFile(file.filename, file.type, buf, recordValidator(), await ingestContext(), mapping)
     // Only a clean file is kept (for the commit step); a file with problems leaves no trace.
     const stored = res.issueCount ? null : await storeOriginal(versionId, viewerId, file.filename, file.type, buf)
+    // the mapping it was read with stays with the original (provenance)
+    if (stored && mapping)
+      await (
+        await useDb()
+      )
+        .update(schema.uploadedFiles)
+        .set({ mapping: mapping as never })
+        .where(eq(schema.uploadedFiles.id, stored.id))
     return {
       upload: stored && { id: stored.id, name: stored.name, size: stored.size, sha256: stored.sha256 },
       kind: res.kind,
@@ -70,18 +78,21 @@ async function checkUpload (event: H3Event, viewerId: string, versionId: number)
       issues: res.issues,
       warningCount: res.warningCount,
       warnings: res.warnings,
-      preview: res.records
-        .slice(0, 2000)
-        .map(r => ({
-          deltaG: r.drivingForce?.value ?? null,
-          log10Rate: Math.log10(r.rate.value),
-          donor: r.system.donor.name,
-          acceptor: r.system.acceptor.name
-        }))
+      preview: res.records.slice(0, 2000).map(r => ({
+        deltaG: r.drivingForce?.value ?? null,
+        log10Rate: Math.log10(r.rate.value),
+        donor: r.system.donor.name,
+        acceptor: r.system.acceptor.name
+      }))
     }
   }
   catch (e) {
-    if (e instanceof FileProblem) throw httpError(e.status, e.message, e.issues)
+    if (e instanceof FileProblem) {
+      const err = httpError(e.status, e.message, e.issues)
+      // an unknown header row: how the file could be read, for the mapping step
+      if (e.proposal) (err.data as Record<string, unknown>).proposal = e.proposal
+      throw err
+    }
     throw e
   }
 }

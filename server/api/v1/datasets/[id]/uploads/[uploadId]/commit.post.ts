@@ -1,5 +1,6 @@
 import { and, eq, isNull } from 'drizzle-orm'
 import { checkFile } from '../../../../../../utils/deposit/check'
+import type { Mapping } from '../../../../../../../shared/records/mapping'
 import {
   ingestContext,
   readOriginal,
@@ -51,7 +52,9 @@ export default defineEventHandler(async (event) => {
     file.mediaType ?? undefined,
     await readOriginal(file.storageKey),
     recordValidator(),
-    await ingestContext()
+    await ingestContext(),
+    // read as it was checked: with the mapping kept beside the original
+    (file.mapping ?? undefined) as Mapping | undefined
   )
   if (res.issueCount)
     throw httpError(
