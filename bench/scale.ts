@@ -117,9 +117,10 @@ if (want('server.start1m') || want('search.server1m') || want('bundle.records1m'
       stdio: 'ignore'
     })
     let up = false
-    for (let i = 0; i < 1200 && !up; i++) {
+    // probes with a timeout: a server busy loading its index may not answer at all for a while
+    while (!up && performance.now() - t < 600_000) {
       try {
-        const r = await fetch(`${url}/api/v1/records?q=porphyrin&pageSize=1`)
+        const r = await fetch(`${url}/api/v1/records?q=porphyrin&pageSize=1`, { signal: AbortSignal.timeout(5000) })
         up = r.ok && (await r.json() as { total: number }).total > 0
       }
       catch { /* starting */ }

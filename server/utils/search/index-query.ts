@@ -43,7 +43,7 @@ export class QueryableIndex extends IndexStore {
     for (const f of ['process', 'solvent', 'technique', 'linkage'] as const) {
       const want = query[f]
       if (!want) continue
-      const v = this.valueKey.get(`${FIELD_NO[f]}\u0000${want}`)
+      const v = this.valueKeys[FIELD_NO[f]]!.get(want)
       if (v === undefined) return 0
       const col = this.textCol[FIELD_NO[f]]!
       j = 0

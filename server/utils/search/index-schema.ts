@@ -116,9 +116,16 @@ const NAME_PREFIXES = ['di', 'tri', 'tetra', 'bis', 'tris', 'methyl', 'ethyl', '
   'benzyl', 'methoxy', 'ethoxy', 'amino', 'nitro', 'cyano', 'chloro', 'bromo', 'fluoro', 'iodo', 'hydroxy', 'oxo', 'aza']
 // minisearch's own tokenizer (split on spaces and punctuation), extended below, not written again
 const DEFAULT_TOKENIZE = MiniSearch.getDefault('tokenize') as (text: string) => string[]
-export function indexTokenize (text: string): string[] {
+/**
+ * Free-text notes: numbers standing alone ("record 123456", "run 17") are not indexed. In notes nearly every such
+ * number is different, and at a million records they were half the index's terms and memory; words (and codes
+ * with letters, "S1234", "C60") are indexed as everywhere else.
+ */
+const NUMBER_ONLY = /^\d+$/
+export function indexTokenize (text: string, field?: string): string[] {
   const out: string[] = []
   for (const token of DEFAULT_TOKENIZE(text)) {
+    if (field === 'notes' && NUMBER_ONLY.test(token)) continue
     out.push(token)
     let rest = token.toLowerCase()
     for (let guard = 0; rest.length >= 8 && guard < 6; guard++) {

@@ -16,7 +16,8 @@ export class IndexStore {
   })
 
   // value dictionary (text fields and SMILES share it; SMILES are not put into minisearch)
-  protected valueKey = new Map<string, number>()
+  /** Per field (text fields, then donor and acceptor SMILES): value text → value id. The key is the text itself. */
+  protected valueKeys: Map<string, number>[] = Array.from({ length: TEXT_FIELDS.length + 2 }, () => new Map())
   protected valueText: string[] = []
   protected valueField: number[] = []
   protected postings: number[][] = []
@@ -60,11 +61,11 @@ export class IndexStore {
   }
 
   protected valueId (field: number, text: string): number {
-    const key = `${field}\u0000${text}`
-    let v = this.valueKey.get(key)
+    const keys = this.valueKeys[field]!
+    let v = keys.get(text)
     if (v === undefined) {
       v = this.valueText.length
-      this.valueKey.set(key, v)
+      keys.set(text, v)
       this.valueText.push(text)
       this.valueField.push(field)
       this.postings.push([])
@@ -166,7 +167,7 @@ export class IndexStore {
   /** Stores the Morgan fingerprint of one SMILES (as given in records). */
   setFingerprint (smiles: string, bits: Uint32Array) {
     for (const f of [TEXT_FIELDS.length, TEXT_FIELDS.length + 1]) {
-      const v = this.valueKey.get(`${f}\u0000${smiles}`)
+      const v = this.valueKeys[f]!.get(smiles)
       if (v !== undefined) this.fingerprints.set(v, bits)
     }
   }
