@@ -85,6 +85,14 @@ if (want('search.http.requests_per_second') || want('search.server.rss_mb')) {
       url, connections: 50, duration: 20,
       requests: [{ method: 'GET', setupRequest: (req: Record<string, unknown>) => { const q = QUERIES[i++ % QUERIES.length]!; return { ...req, path: `/api/v1/records?${new URLSearchParams(Object.entries(q).map(([k, v]) => [k, String(v)]))}&pageSize=20` } } }]
     })
+    // distinct queries: every request a new ΔG° window and page, so the answer cache never hits
+    let j = 0
+    const distinct = await autocannon({
+      url, connections: 50, duration: 20,
+      requests: [{ method: 'GET', setupRequest: (req: Record<string, unknown>) => { j++; const q = QUERIES[j % QUERIES.length]!; return { ...req, path: `/api/v1/records?${new URLSearchParams(Object.entries(q).map(([k, v]) => [k, String(v)]))}&deltaGMin=${(-3 + (j % 997) / 1000).toFixed(3)}&page=${1 + (j % 7)}&pageSize=20` } } }]
+    })
+    report('search.http.distinct_rps', distinct.requests.average, '1/s', 300)
+    process.stderr.write(`(distinct queries: ${distinct.errors} errors, ${distinct.non2xx} non-2xx, p95 ${distinct.latency.p97_5 ?? distinct.latency.p99} ms)\n`)
     const rss = Number((await import('node:fs')).readFileSync(`/proc/${proc.pid}/status`, 'utf8').match(/VmHWM:\s+(\d+)/)![1]) / 1024
     proc.kill('SIGTERM')
     report('search.http.requests_per_second', res.requests.average, '1/s', 1500)
