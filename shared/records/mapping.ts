@@ -27,7 +27,8 @@ export interface Mapping {
   constants?: Record<string, { value: string | number, unit?: string }>
 }
 
-const norm = (s: string) =>
+/** A header name as the synonyms are looked up: NFKC, lower case, Greek Δ/τ spelled out, punctuation as spaces. */
+export const normaliseHeader = (s: string) =>
   s
     .normalize('NFKC')
     .toLowerCase()
@@ -205,7 +206,7 @@ export function unitFor (field: string, spelled: string | undefined): string | u
 export function fieldFor (name: string, extra: Record<string, string> = {}): string | null {
   const key = name.trim().toLowerCase().replace(/\s+/g, '_')
   if (COLUMN_BY_KEY.has(key)) return key
-  const n = norm(name)
+  const n = normaliseHeader(name)
   return extra[n] ?? HEADER_SYNONYMS[n] ?? null
 }
 

@@ -144,6 +144,18 @@ describe('problems by the file\'s own names; nothing written; saved mappings', (
     expect(r.data.message).toMatch(/Unknown columns: Donor, Acceptor, T \/ K, k_ET \/ s\^-1/)
     expect(r.data.data.proposal.columns.map((c: any) => c.field)).toEqual(['donor_name', 'acceptor_name', 'temperature', 'rate'])
   })
+  it('a header word a curator declares is proposed from then on', async () => {
+    const body = 'Sensitiser,Quencher,T (K),k (s-1)\nRu(bpy)3,MV2+,298,2e9\n'
+    expect((await send('inspect', 'words.csv', body)).data.mapping.columns.map((c: any) => c.field)).toEqual([null, null, 'temperature', 'rate'])
+    const curator = await signIn(s.url, DEMO.curator)
+    for (const [alias, field] of [['Sensitiser', 'donor_name'], ['quencher', 'acceptor_name']]) {
+      const r = await api(s.url, '/api/v1/header-synonyms', { method: 'POST', headers: { cookie: curator }, json: { alias, field } })
+      expect(r.status).toBe(201)
+    }
+    expect((await api(s.url, '/api/v1/header-synonyms', { method: 'POST', headers: { cookie: curator }, json: { alias: 'T', field: 'notes' } })).status).toBe(409)
+    expect((await api(s.url, '/api/v1/header-synonyms', { method: 'POST', headers: { cookie: curator }, json: { alias: 'shade', field: 'colour' } })).data.data.issues[0].path).toBe('/field')
+    expect((await send('inspect', 'words.csv', body)).data.mapping.columns.map((c: any) => c.field)).toEqual(['donor_name', 'acceptor_name', 'temperature', 'rate'])
+  })
   it('a saved mapping is proposed again for the next file with the same headers', async () => {
     const body = 'Donor,Acceptor,T / K,k_ET / s^-1\nZnP,C60,298,1e9\n'
     const first = await send('inspect', 'a.csv', body)

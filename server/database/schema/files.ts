@@ -157,3 +157,17 @@ export const columnMappings = sqliteTable(
   },
   t => [uniqueIndex('column_mapping_lab_name_unique').on(t.labId, t.name), index('column_mapping_signature_idx').on(t.labId, t.signature)]
 )
+
+/** Spreadsheet header words curators declare to mean a field of the open format (the mapping step proposes them). */
+export const headerSynonyms = sqliteTable(
+  'header_synonym',
+  {
+    id: integer('id').primaryKey({ autoIncrement: true }),
+    /** Normalised as the mapping step compares headers (shared/records/mapping.ts normaliseHeader). */
+    alias: text('alias').notNull(),
+    field: text('field').notNull(),
+    createdBy: text('created_by').references(() => users.id),
+    ...timestamps
+  },
+  t => [uniqueIndex('header_synonym_alias_unique').on(t.alias)]
+)

@@ -17,6 +17,7 @@ import { SYNONYM_BODY } from '../systems/systems'
 import { SAVED_SEARCH_BODY, SAVED_SEARCH_PATCH, UNSUBSCRIBE_BODY } from '../alerts/saved-searches'
 import { decayFitBodySchema } from '../model/decay-schemas'
 import { SAVE_MAPPING_BODY } from '../deposit/mappings'
+import { HEADER_SYNONYM_BODY } from '../deposit/header-synonyms'
 import { RATE_FROM_TRACE_BODY, TRACE_FIT_OPTIONS } from '../traces/trace-fit'
 import { TRACE_META_QUERY } from '../traces/traces'
 
@@ -59,6 +60,7 @@ const BODIES: Record<string, unknown> = {
   'POST /api/v1/account/saved-searches/unsubscribe': UNSUBSCRIBE_BODY,
   'POST /api/v1/model/decay-fit': decayFitBodySchema,
   'POST /api/v1/labs/{id}/mappings': SAVE_MAPPING_BODY,
+  'POST /api/v1/header-synonyms': HEADER_SYNONYM_BODY,
   'POST /api/v1/traces/{id}/fit': TRACE_FIT_OPTIONS,
   'POST /api/v1/datasets/{id}/records/{recordId}/rate-from-trace': RATE_FROM_TRACE_BODY
 }

@@ -1,0 +1,23 @@
+/** Header words curators maintain (normalised alias → field), added to the built-in ones when a sheet is read. */
+import { asc } from 'drizzle-orm'
+import { schema, useDb } from '../storage/db'
+
+export const HEADER_SYNONYM_BODY = {
+  type: 'object',
+  additionalProperties: false,
+  required: ['alias', 'field'],
+  properties: {
+    alias: { type: 'string', minLength: 1, maxLength: 80, description: 'a header word as labs write it, without its unit' },
+    field: { type: 'string', minLength: 1, maxLength: 60, description: 'the field of the open format it means' }
+  }
+}
+
+export async function headerSynonyms () {
+  const db = await useDb()
+  return db.select().from(schema.headerSynonyms).orderBy(asc(schema.headerSynonyms.alias))
+}
+
+/** The curators' words as the mapping step takes them. */
+export async function extraHeaderWords (): Promise<Record<string, string>> {
+  return Object.fromEntries((await headerSynonyms()).map(s => [s.alias, s.field]))
+}
