@@ -297,7 +297,23 @@ function constantsAbove (grid: Grid, headerRow: number, extra: Record<string, st
 }
 
 /** The proposed reading of a sheet; `extra` are curator-maintained header synonyms (normalised name → field). */
-export function proposeMapping (grid: Grid, extra: Record<string, string> = {}): Mapping {
+/**
+ * A column whose header says nothing known, read from its values: every value (of the first 50) one of a field's
+ * allowed words (process, linkage, initial state, technique, reference electrode …), or one of the known solvents.
+ */
+function fieldFromValues (values: (string | number | null)[], taken: Set<string>, solvents: Set<string>): string | null {
+  const words = values.filter(v => v !== null && String(v).trim() !== '').map(v => String(v).trim())
+  if (words.length < 2) return null
+  for (const def of COLUMN_BY_KEY.values()) {
+    if (!def.values || taken.has(def.key)) continue
+    const allowed = new Set(def.values.map(v => v.toLowerCase()))
+    if (words.every(w => allowed.has(w.toLowerCase()))) return def.key
+  }
+  if (!taken.has('solvent') && solvents.size && words.every(w => solvents.has(w.toLowerCase()))) return 'solvent'
+  return null
+}
+
+export function proposeMapping (grid: Grid, extra: Record<string, string> = {}, solvents: Set<string> = new Set()): Mapping {
   const layout = detectLayout(grid)
   const header = grid[layout.headerRow - 1] ?? []
   const unitsRow = layout.unitsRow ? grid[layout.unitsRow - 1] : undefined
@@ -320,6 +336,16 @@ export function proposeMapping (grid: Grid, extra: Record<string, string> = {}):
       constants[field === 'donor_oxidation_potential' ? 'donor_reference' : 'acceptor_reference'] = { value: reference }
     const u = unitFor(field, spelled)
     return { field, ...(u ? { unit: u } : {}) }
+  })
+  // columns the headers left unnamed: by their values
+  const data = grid.slice(layout.firstDataRow - 1, layout.firstDataRow + 49)
+  columns.forEach((c, i) => {
+    if (c.field) return
+    const f = fieldFromValues(data.map(r => r[i] ?? null), seen, solvents)
+    if (f && !constants[f]) {
+      seen.add(f)
+      columns[i] = { field: f }
+    }
   })
   return {
     ...layout,

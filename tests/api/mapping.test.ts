@@ -156,6 +156,11 @@ describe('problems by the file\'s own names; nothing written; saved mappings', (
     expect((await api(s.url, '/api/v1/header-synonyms', { method: 'POST', headers: { cookie: curator }, json: { alias: 'shade', field: 'colour' } })).data.data.issues[0].path).toBe('/field')
     expect((await send('inspect', 'words.csv', body)).data.mapping.columns.map((c: any) => c.field)).toEqual(['donor_name', 'acceptor_name', 'temperature', 'rate'])
   })
+  it('columns whose headers say nothing are proposed from their values (allowed words, known solvents)', async () => {
+    const body = 'Donor,Acceptor,Col C,Col D,Col E,T (K),k (s-1)\nZnP,C60,charge-separation,toluene,covalent,298,1e9\nZnP,C70,charge-recombination,benzonitrile,covalent,298,2e9\n'
+    const r = await send('inspect', 'values.csv', body)
+    expect(r.data.mapping.columns.map((c: any) => c.field)).toEqual(['donor_name', 'acceptor_name', 'process', 'solvent', 'linkage', 'temperature', 'rate'])
+  })
   it('a saved mapping is proposed again for the next file with the same headers', async () => {
     const body = 'Donor,Acceptor,T / K,k_ET / s^-1\nZnP,C60,298,1e9\n'
     const first = await send('inspect', 'a.csv', body)

@@ -11,7 +11,7 @@ import {
 import type { RateRecordV1 } from '../../../shared/records/types'
 import { FileProblem, MAX_ROWS, detectKind, parseCsv, parseJsonRecords, parseXlsx, type Table } from './parse'
 import { structureIssues } from '../search/structures'
-import { extraHeaderWords } from './header-synonyms'
+import { extraHeaderWords, solventNames } from './header-synonyms'
 import { applyMapping, proposeMapping, type Grid, type Mapping } from '../../../shared/records/mapping'
 
 export interface CheckResult {
@@ -264,7 +264,7 @@ export async function checkFile (
   }
   catch (e) {
     if (e instanceof FileProblem && e.issues.some(i => i.path === '/header'))
-      e.proposal = proposeMapping([table.headers, ...table.rows], await extraHeaderWords())
+      e.proposal = proposeMapping([table.headers, ...table.rows], await extraHeaderWords(), await solventNames())
     throw e
   }
 }

@@ -17,6 +17,12 @@ export async function headerSynonyms () {
   return db.select().from(schema.headerSynonyms).orderBy(asc(schema.headerSynonyms.alias))
 }
 
+/** The solvent table's names (lower case), for proposing a column of solvent names. */
+export async function solventNames (): Promise<Set<string>> {
+  const db = await useDb()
+  return new Set((await db.select({ name: schema.solvents.name }).from(schema.solvents)).map(s => s.name.toLowerCase()))
+}
+
 /** The curators' words as the mapping step takes them. */
 export async function extraHeaderWords (): Promise<Record<string, string>> {
   return Object.fromEntries((await headerSynonyms()).map(s => [s.alias, s.field]))

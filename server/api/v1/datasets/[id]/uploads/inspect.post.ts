@@ -2,7 +2,7 @@ import { requireEditableDraft } from '../../../../../utils/deposit/drafts'
 import { readGrid } from '../../../../../utils/deposit/check'
 import { FileProblem, MAX_FILE_BYTES } from '../../../../../utils/deposit/parse'
 import { mappingField, savedMappingFor } from '../../../../../utils/deposit/mappings'
-import { extraHeaderWords } from '../../../../../utils/deposit/header-synonyms'
+import { extraHeaderWords, solventNames } from '../../../../../utils/deposit/header-synonyms'
 import { discardBody, readUploadedFile } from '../../../../../utils/http/body'
 import { httpError } from '../../../../../utils/http/errors'
 import { intParam } from '../../../../../utils/http/params'
@@ -32,7 +32,7 @@ export default defineEventHandler(async (event) => {
   try {
     const given = mappingField(file.fields.mapping)
     const { kind, grid, sheets, sheet } = await readGrid(file.filename, file.type, file.data, given?.sheet ?? file.fields.sheet)
-    const proposed = proposeMapping(grid, await extraHeaderWords())
+    const proposed = proposeMapping(grid, await extraHeaderWords(), await solventNames())
     const saved = await savedMappingFor(draft.dataset.labId, headerSignature(grid[proposed.headerRow - 1] ?? []))
     const mapping = given ?? saved?.mapping ?? proposed
     const preview = applyMapping(grid.slice(0, Math.max(mapping.firstDataRow + 9, 40)), mapping)
