@@ -3,7 +3,7 @@ import { PassThrough } from 'node:stream'
 import { sendStream, setHeaders, type H3Event } from 'h3'
 import { httpError } from '../http/errors'
 import { clientAddress } from '../http/rate-limit'
-import { type Selection, countSelection, datasetsOfSelection } from './selection'
+import { type Selection, countSelection } from './selection'
 import { countUsage } from '../usage/counter'
 import { writeBundle } from './bundle'
 
@@ -16,7 +16,7 @@ let runningTotal = 0
 
 /** Streams the bag as the answer; at most two bundles at once per client, and a disconnect stops the work. */
 export async function sendBundle (event: H3Event, sel: Selection, filename: string) {
-  const n = await countSelection(sel)
+  const { n, publishedDatasets } = await countSelection(sel)
   if (n === 0) throw httpError(404, 'Nothing to bundle: the selection holds no record you may download')
   if (n > MAX_BUNDLE_RECORDS)
     throw httpError(
@@ -56,9 +56,7 @@ export async function sendBundle (event: H3Event, sel: Selection, filename: stri
     'x-crosspoint-records': String(n)
   })
   // COUNTER: a request of every published dataset the bundle draws on
-  datasetsOfSelection(sel)
-    .then(ids => ids.forEach(id => countUsage(event, id, 'request', 'bundle')))
-    .catch(() => {})
+  for (const id of publishedDatasets) countUsage(event, id, 'request', 'bundle')
   // the instance-wide slot is freed when the work has really stopped (its snapshot closed), not at disconnect
   writeBundle(sel, out, controller.signal, filename.replace(/\.zip$/, ''))
     .catch((e) => {

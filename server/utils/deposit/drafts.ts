@@ -4,6 +4,7 @@ import { and, desc, eq, inArray, sql } from 'drizzle-orm'
 import type { H3Event } from 'h3'
 import { useDb, schema, type Tx } from '../storage/db'
 import { httpError, MESSAGES } from '../http/errors'
+import { discardBody } from '../http/body'
 import { requireUser, type Viewer } from '../accounts/auth'
 import { compile } from '../http/validation'
 import rateRecordSchema from '../../../schemas/rate-record.v1.json'
@@ -68,6 +69,20 @@ export async function requireEditableDraft (
 }
 
 export { readOriginal, storeOriginal } from '../storage/originals'
+
+/**
+ * requireEditableDraft for a route that receives a file: when the caller may not write, the file still on its way
+ * is read and dropped (at most `maxBytes`) before the refusal, so the answer is not cut off by an unread body.
+ */
+export async function requireDraftForFile (event: H3Event, datasetId: number, maxBytes: number) {
+  try {
+    return await requireEditableDraft(event, datasetId)
+  }
+  catch (e) {
+    await discardBody(event, maxBytes + 65536)
+    throw e
+  }
+}
 
 /** Appends (or, with replace, swaps in) records of a draft version in one transaction; all or nothing. */
 export async function writeRecords (

@@ -10,7 +10,9 @@ export async function storeOriginal (
   uploadedBy: string,
   name: string,
   mediaType: string | undefined,
-  buf: Uint8Array
+  buf: Uint8Array,
+  /** how a spreadsheet was read (its column mapping), kept beside the original as provenance */
+  mapping?: object
 ) {
   const sha256 = createHash('sha256').update(buf).digest('hex')
   const ext = (name.match(/\.(csv|tsv|txt|xlsx|json)$/i)?.[1] ?? 'bin').toLowerCase()
@@ -26,7 +28,8 @@ export async function storeOriginal (
       size: buf.byteLength,
       sha256,
       storageKey,
-      mediaType: mediaType ?? null
+      mediaType: mediaType ?? null,
+      mapping: (mapping ?? null) as Record<string, unknown> | null
     })
     .returning()
   return row!

@@ -1,4 +1,4 @@
-import { requireEditableDraft } from '../../../../../utils/deposit/drafts'
+import { requireDraftForFile } from '../../../../../utils/deposit/drafts'
 import { FileProblem } from '../../../../../utils/deposit/parse'
 import { discardBody, readUploadedFile } from '../../../../../utils/http/body'
 import { httpError } from '../../../../../utils/http/errors'
@@ -19,11 +19,10 @@ defineRouteMeta({
 
 export default defineEventHandler(async (event) => {
   const id = intParam(event, 'id')
+  const draft = await requireDraftForFile(event, id, MAX_TRACE_BYTES)
   let meta: TraceMeta
-  let draft
   try {
     meta = queryValidated<TraceMeta>(event, TRACE_META_QUERY, coerceNumbers(['wavelengthNm']))
-    draft = await requireEditableDraft(event, id)
   }
   catch (e) {
     await discardBody(event, MAX_TRACE_BYTES + 65536)

@@ -1,13 +1,11 @@
 import type { H3Event } from 'h3'
 import { checkFile } from '../../../../../utils/deposit/check'
-import { ingestContext, recordValidator, requireEditableDraft, storeOriginal } from '../../../../../utils/deposit/drafts'
+import { ingestContext, recordValidator, requireDraftForFile, storeOriginal } from '../../../../../utils/deposit/drafts'
 import { FileProblem, MAX_FILE_BYTES } from '../../../../../utils/deposit/parse'
 import { httpError } from '../../../../../utils/http/errors'
 import { discardBody, readUploadedFile } from '../../../../../utils/http/body'
 import { intParam } from '../../../../../utils/http/params'
 import { mappingField } from '../../../../../utils/deposit/mappings'
-import { schema, useDb } from '../../../../../utils/storage/db'
-import { eq } from 'drizzle-orm'
 
 defineRouteMeta({
   openAPI: {
@@ -25,15 +23,7 @@ defineRouteMeta({
 
 export default defineEventHandler(async (event) => {
   const id = intParam(event, 'id')
-  let draft
-  try {
-    draft = await requireEditableDraft(event, id)
-  }
-  catch (e) {
-    await discardBody(event, MAX_FILE_BYTES + 65536)
-    throw e
-  }
-  const { viewer, version } = draft
+  const { viewer, version } = await requireDraftForFile(event, id, MAX_FILE_BYTES)
   // at most MAX_CHECKS_AT_ONCE files are read and checked at once on this instance: memory stays bounded
   if (checksRunning >= MAX_CHECKS_AT_ONCE) {
     setHeader(event, 'retry-after', 5)
@@ -59,15 +49,8 @@ async function checkUpload (event: H3Event, viewerId: string, versionId: number)
     const mapping = mappingField(file.fields.mapping)
     const res = await checkFile(file.filename, file.type, buf, recordValidator(), await ingestContext(), mapping)
     // Only a clean file is kept (for the commit step); a file with problems leaves no trace.
-    const stored = res.issueCount ? null : await storeOriginal(versionId, viewerId, file.filename, file.type, buf)
-    // the mapping it was read with stays with the original (provenance)
-    if (stored && mapping)
-      await (
-        await useDb()
-      )
-        .update(schema.uploadedFiles)
-        .set({ mapping: mapping as never })
-        .where(eq(schema.uploadedFiles.id, stored.id))
+    // (with the mapping it was read with, as provenance)
+    const stored = res.issueCount ? null : await storeOriginal(versionId, viewerId, file.filename, file.type, buf, mapping)
     return {
       upload: stored && { id: stored.id, name: stored.name, size: stored.size, sha256: stored.sha256 },
       kind: res.kind,

@@ -1,9 +1,9 @@
-import { requireEditableDraft } from '../../../../../utils/deposit/drafts'
+import { requireDraftForFile } from '../../../../../utils/deposit/drafts'
 import { readGrid } from '../../../../../utils/deposit/check'
 import { FileProblem, MAX_FILE_BYTES } from '../../../../../utils/deposit/parse'
 import { mappingField, savedMappingFor } from '../../../../../utils/deposit/mappings'
 import { extraHeaderWords, solventNames } from '../../../../../utils/deposit/header-synonyms'
-import { discardBody, readUploadedFile } from '../../../../../utils/http/body'
+import { readUploadedFile } from '../../../../../utils/http/body'
 import { httpError } from '../../../../../utils/http/errors'
 import { intParam } from '../../../../../utils/http/params'
 import { applyMapping, headerSignature, proposeMapping } from '../../../../../../shared/records/mapping'
@@ -20,14 +20,7 @@ defineRouteMeta({
 
 export default defineEventHandler(async (event) => {
   const id = intParam(event, 'id')
-  let draft
-  try {
-    draft = await requireEditableDraft(event, id)
-  }
-  catch (e) {
-    await discardBody(event, MAX_FILE_BYTES + 65536)
-    throw e
-  }
+  const draft = await requireDraftForFile(event, id, MAX_FILE_BYTES)
   const file = await readUploadedFile(event, MAX_FILE_BYTES)
   try {
     const given = mappingField(file.fields.mapping)
