@@ -20,7 +20,10 @@ const word = process.argv[2] ?? ''
 const want = (n: string) => !word || n.includes(word)
 const N = 1_000_000
 const DATASETS_N = 100
-const dir = mkdtempSync(join(tmpdir(), 'crosspoint-bench-1m-'))
+// BENCH_1M_DIR keeps the million-record database between runs (written once, then reused)
+const keep = process.env.BENCH_1M_DIR
+const dir = keep ?? mkdtempSync(join(tmpdir(), 'crosspoint-bench-1m-'))
+const reuse = !!keep && existsSync(join(dir, 'bench.db'))
 process.env.NUXT_DATABASE_URL = `file:${join(dir, 'bench.db')}`
 const { openDatabase, schema } = await import('../server/utils/storage/db')
 const { toDoc } = await import('../server/utils/search/search')
@@ -66,9 +69,8 @@ if (want('search.build1m') || want('search.query1m')) {
   process.stderr.write(`(in-process heap with the 1M index: ${(process.memoryUsage().heapUsed / 1048576).toFixed(0)} MB)\n`)
 }
 
-if (want('server.start1m') || want('search.server1m') || want('bundle.records1m')) {
-  const { db, client } = await openDatabase(process.env.NUXT_DATABASE_URL)
-  const t0 = performance.now()
+/** The archive: 20 labs, 100 published datasets of 10 000 records each. */
+async function writeArchive (db: Awaited<ReturnType<typeof openDatabase>>['db']) {
   const labs = await db.insert(schema.labs).values(Array.from({ length: 20 }, (_, i) => ({ slug: `bench-${i}`, name: `Bench lab ${i} (invented)` }))).returning()
   const versions: number[] = []
   for (let d = 0; d < DATASETS_N; d++) {
@@ -88,6 +90,12 @@ if (want('server.start1m') || want('search.server1m') || want('bundle.records1m'
       }))
     }
   })
+}
+
+if (want('server.start1m') || want('search.server1m') || want('bundle.records1m')) {
+  const { db, client } = await openDatabase(process.env.NUXT_DATABASE_URL)
+  const t0 = performance.now()
+  if (!reuse) await writeArchive(db)
   process.stderr.write(`(wrote ${N} records in ${((performance.now() - t0) / 1000).toFixed(0)} s)\n`)
 
   if (want('bundle.records1m')) {
@@ -142,4 +150,4 @@ if (want('server.start1m') || want('search.server1m') || want('bundle.records1m'
     proc.kill('SIGTERM')
   }
 }
-rmSync(dir, { recursive: true, force: true })
+if (!keep) rmSync(dir, { recursive: true, force: true })

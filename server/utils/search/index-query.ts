@@ -1,10 +1,10 @@
 /** Queries over the record index: filters, text hits, ordering, facet counts and ranges. */
 import MiniSearch from 'minisearch'
 import {
-  FACET_FIELDS, FIELD_NO, FIRST_YEAR, MAX_QUERY_TERMS, type NumberColumn, type SearchAnswer, type SearchQuery, YEAR_SPAN,
-  expandSynonyms
+  FACET_FIELD_NOS, FIELD_NO, FIRST_YEAR, MAX_QUERY_TERMS, type NumberColumn, type SearchAnswer, type SearchQuery, TUPLE_WIDTH,
+  YEAR_SPAN, expandSynonyms
 } from './index-schema'
-import { topK } from './index-math'
+import { topK, topKById, topKByKey } from './index-math'
 import { IndexStore } from './index-store'
 
 export class QueryableIndex extends IndexStore {
@@ -12,13 +12,21 @@ export class QueryableIndex extends IndexStore {
    * Narrows a list of slots to those passing the query's filters (visibility, lab, facet values by
    * value id, ranges), one tight loop per filter over the columns; false when a facet value is unknown.
    */
-  protected narrow (sel: Int32Array, len: number, query: SearchQuery, labs: Set<number>): number {
+  protected narrow (
+    sel: Int32Array,
+    len: number,
+    query: SearchQuery,
+    labs: Set<number>,
+    visChecked: boolean,
+    fieldDone?: string
+  ): number {
     // Written out loop by loop on purpose: one shared loop calling a test closure per record was
     // twice as slow (the call site sees many closures and V8 stops inlining).
     const vis = this.visCol
     const lab = this.labCol
     let j = 0
-    if (labs.size) {
+    if (visChecked && !labs.size) j = len
+    else if (labs.size) {
       for (let i = 0; i < len; i++) {
         const s = sel[i]!
         if (vis[s] === 1 || (vis[s] === 2 && labs.has(lab[s]!))) sel[j++] = s
@@ -42,7 +50,7 @@ export class QueryableIndex extends IndexStore {
     }
     for (const f of ['process', 'solvent', 'technique', 'linkage'] as const) {
       const want = query[f]
-      if (!want) continue
+      if (!want || f === fieldDone) continue
       const v = this.valueKeys[FIELD_NO[f]]!.get(want)
       if (v === undefined) return 0
       const col = this.textCol[FIELD_NO[f]]!
@@ -54,21 +62,29 @@ export class QueryableIndex extends IndexStore {
       len = j
     }
     // NaN (no value) fails every comparison, so a record without the value is outside any range
-    const ranges: [Float64Array | Int32Array, number | undefined, number | undefined][] = [
+    const ranges: [Float64Array, number | undefined, number | undefined][] = [
       [this.num.deltaG, query.deltaGMin, query.deltaGMax],
       [this.num.temperatureK, query.temperatureMin, query.temperatureMax],
       [this.num.distance, query.distanceMin, query.distanceMax],
-      [this.num.log10Rate, query.log10RateMin, query.log10RateMax],
-      [
-        this.yearCol,
-        query.yearMin === undefined && query.yearMax === undefined ? undefined : (query.yearMin ?? 1),
-        query.yearMax
-      ] // 0 = no year, below any minimum
+      [this.num.log10Rate, query.log10RateMin, query.log10RateMax]
     ]
     for (const [col, min, max] of ranges) {
       if (min === undefined && max === undefined) continue
       const lo = min ?? -Infinity
       const hi = max ?? Infinity
+      j = 0
+      for (let i = 0; i < len; i++) {
+        const s = sel[i]!
+        const x = col[s]!
+        if (x >= lo && x <= hi) sel[j++] = s
+      }
+      len = j
+    }
+    // years apart (an Int32 column; one loop over both kinds of column ran at half speed): 0 = no year, below any minimum
+    if (query.yearMin !== undefined || query.yearMax !== undefined) {
+      const lo = query.yearMin ?? 1
+      const hi = query.yearMax ?? Infinity
+      const col = this.yearCol
       j = 0
       for (let i = 0; i < len; i++) {
         const s = sel[i]!
@@ -85,10 +101,13 @@ export class QueryableIndex extends IndexStore {
     const labs = new Set(viewer?.labIds ?? [])
     let sel: Int32Array
     let len = 0
+    let fieldDone: string | undefined
     const scored = !!query.q?.trim()
+    if (this.selBuf.length < this.n) this.selBuf = new Int32Array(this.idCol.length)
     if (scored) {
-      sel = this.textHits(query.q!)
+      sel = this.textHits(query.q!, this.selBuf)
       len = sel.length
+      sel = this.selBuf
     }
     else if (query.ids) {
       sel = new Int32Array(query.ids.length)
@@ -98,17 +117,34 @@ export class QueryableIndex extends IndexStore {
       }
     }
     else {
-      // the visibility test is done here already for the common case (a visitor)
-      sel = new Int32Array(this.n)
+      sel = this.selBuf
+      // start from the shortest posting list of the facet values asked for (narrow() tests the rest), else from every
+      // slot; the visibility test is done here already
+      let from: number[] | undefined
+      for (const f of ['process', 'solvent', 'technique', 'linkage'] as const) {
+        if (!query[f]) continue
+        const v = this.valueKeys[FIELD_NO[f]]!.get(query[f])
+        const list = v === undefined ? [] : this.postings[v]!
+        if (!from || list.length < from.length) {
+          from = list
+          fieldDone = f
+        }
+      }
       const vis = this.visCol
-      if (labs.size) {
+      if (from && labs.size) {
+        for (let i = 0; i < from.length; i++) if (vis[from[i]!]) sel[len++] = from[i]!
+      }
+      else if (from) {
+        for (let i = 0; i < from.length; i++) if (vis[from[i]!] === 1) sel[len++] = from[i]!
+      }
+      else if (labs.size) {
         for (let s = 0; s < this.n; s++) if (vis[s]) sel[len++] = s
       }
       else {
         for (let s = 0; s < this.n; s++) if (vis[s] === 1) sel[len++] = s
       }
     }
-    len = this.narrow(sel, len, query, labs)
+    len = this.narrow(sel, len, query, labs, !scored && !query.ids, fieldDone)
     const hits = sel.subarray(0, len)
     const page = this.order(hits, query, scored)
     const suggestion = scored ? this.suggest(query.q!, labs) : undefined
@@ -131,22 +167,24 @@ export class QueryableIndex extends IndexStore {
     // a word is only ever suggested from a value some record the viewer may see carries (never from another lab's draft)
     const vis = this.visCol
     const lab = this.labCol
-    const seen = (value: number) =>
-      this.postings[value]!.some(s => vis[s] === 1 || (vis[s] === 2 && labs.has(lab[s]!)))
+    const visible = (s: number) => vis[s] === 1 || (vis[s] === 2 && labs.has(lab[s]!))
+    const seen = (value: number) => this.postings[value]!.some(visible)
     let out = q
     for (const t of tokenize(q).slice(0, MAX_QUERY_TERMS)) {
       const p = process(t)
       if (!p || p.length < 4 || /\d/.test(p) || expandSynonyms(p) !== p) continue
-      if (this.text.search(p, { prefix: true, fuzzy: false }).length) continue
-      const near = this.text.search(p, { prefix: false, fuzzy: p.length >= 5 ? 2 : 1 }).slice(0, 50)
+      if (this.text.search(p, { prefix: true, fuzzy: false }).length || this.notes.hasPrefix(p)) continue
+      const edits = p.length >= 5 ? 2 : 1
+      const near = this.text.search(p, { prefix: false, fuzzy: edits }).slice(0, 50)
       const term = near.find(r => seen(r.id as number))?.terms.find(x => x !== p)
+        ?? this.notes.near(p, edits).find(w => w.word !== p && w.slots.some(visible))?.word
       if (term) out = out.replace(t, term)
     }
     return out === q ? undefined : out
   }
 
   /** Slots of the records whose values match every query term, scored (score left in this.score). */
-  protected textHits (q: string): Int32Array {
+  protected textHits (q: string, out: Int32Array): Int32Array {
     const tokenize = MiniSearch.getDefault('tokenize') as (t: string) => string[]
     const process = MiniSearch.getDefault('processTerm') as (t: string) => string | null | undefined
     const bit = new Map<string, number>()
@@ -154,7 +192,7 @@ export class QueryableIndex extends IndexStore {
       const p = process(t)
       if (p && !bit.has(p) && bit.size < MAX_QUERY_TERMS) bit.set(p, 1 << bit.size)
     }
-    if (!bit.size) return new Int32Array(0)
+    if (!bit.size) return out.subarray(0, 0)
     const full = (1 << bit.size) - 1
     const results = this.text.search([...bit.keys()].join(' '), { combineWith: 'OR' })
     if (this.mask.length < this.n) {
@@ -181,14 +219,28 @@ export class QueryableIndex extends IndexStore {
         mask[s]! |= bits
       }
     }
-    const hits = new Int32Array(nt)
+    // notes: their own index (index-notes.ts), the same accumulation
+    for (const [term, bits] of bit) {
+      for (const { slots, weight } of this.notes.match(term)) {
+        for (let i = 0; i < slots.length; i++) {
+          const s = slots[i]!
+          const sc = weight * this.notes.score(s)
+          if (mask[s] === 0) {
+            touched[nt++] = s
+            score[s] = sc
+          }
+          else score[s]! += sc
+          mask[s]! |= bits
+        }
+      }
+    }
     let n = 0
     for (let i = 0; i < nt; i++) {
       const s = touched[i]!
-      if (mask[s] === full) hits[n++] = s
+      if (mask[s] === full) out[n++] = s
       mask[s] = 0
     }
-    return hits.subarray(0, n)
+    return out.subarray(0, n)
   }
 
   /** The slots of the requested page, in the requested order (only the first page·size are ordered). */
@@ -196,55 +248,38 @@ export class QueryableIndex extends IndexStore {
     const ids = this.idCol
     const key = query.sort?.replace(/^-/, '')
     const dir = query.sort?.startsWith('-') ? -1 : 1
-    let cmp: (a: number, b: number) => number
+    const start = (query.page - 1) * query.pageSize
+    const k = start + query.pageSize
     if (key === 'donor' || key === 'acceptor') {
       const col = this.textCol[FIELD_NO[key]]!
       const text = this.valueText
-      cmp = (a, b) => {
+      const cmp = (a: number, b: number) => {
         const x = text[col[a]!] ?? ''
         const y = text[col[b]!] ?? ''
         return (x < y ? -1 : x > y ? 1 : 0) * dir || ids[a]! - ids[b]!
       }
+      return topK(hits, k, cmp).slice(start)
     }
-    else if (key && ['deltaG', 'log10Rate', 'temperature', 'distance'].includes(key)) {
-      const col = this.num[key === 'temperature' ? 'temperatureK' : (key as NumberColumn)]
-      cmp = (a, b) => {
-        const x = col[a]!
-        const y = col[b]!
-        if (Number.isNaN(x) || Number.isNaN(y)) return Number.isNaN(x) ? (Number.isNaN(y) ? ids[a]! - ids[b]! : 1) : -1 // no value: last
-        return (x - y) * dir || ids[a]! - ids[b]!
-      }
-    }
-    else if (scored) {
-      const sc = this.score
-      cmp = (a, b) => sc[b]! - sc[a]! || ids[a]! - ids[b]!
-    }
-    else {
-      cmp = (a, b) => ids[a]! - ids[b]!
-    }
-    const start = (query.page - 1) * query.pageSize
-    return topK(hits, start + query.pageSize, cmp).slice(start)
+    // numbers (no value last), scores (best first), else ids
+    const col = key && ['deltaG', 'log10Rate', 'temperature', 'distance'].includes(key)
+      ? this.num[key === 'temperature' ? 'temperatureK' : (key as NumberColumn)]
+      : null
+    const top = col
+      ? topKByKey(hits, k, col, dir, ids)
+      : scored
+        ? topKByKey(hits, k, this.score, -1, ids)
+        : topKById(hits, k, ids)
+    return top.slice(start)
   }
 
-  /** Facet counts and value ranges of the hits, in one pass over them. */
+  /** Facet counts and value ranges of the hits, in one pass over them (facets by tuple, folded afterwards). */
   protected summarise (hits: Int32Array): Pick<SearchAnswer, 'facets' | 'ranges'> {
-    const fields = FACET_FIELDS.map(f => FIELD_NO[f])
-    const [c0, c1, c2, c3, c4] = fields.map(f => this.facetCol[f]!) as [
-      Int32Array,
-      Int32Array,
-      Int32Array,
-      Int32Array,
-      Int32Array
-    ]
-    const [n0, n1, n2, n3, n4] = fields.map(f => new Int32Array(this.fieldValues[f]!.length + 1)) as [
-      Int32Array,
-      Int32Array,
-      Int32Array,
-      Int32Array,
-      Int32Array
-    ]
-    const byYear = new Int32Array(YEAR_SPAN)
-    const yc = this.yearCol
+    const fields = FACET_FIELD_NOS
+    const nTuples = this.tupleKeys.size
+    if (this.tupleCounts.length < nTuples) this.tupleCounts = new Int32Array(Math.max(nTuples * 2, 1024))
+    const perTuple = this.tupleCounts
+    perTuple.fill(0, 0, nTuples)
+    const tc = this.tupleCol
     const dg = this.num.deltaG
     const tk = this.num.temperatureK
     const ds = this.num.distance
@@ -259,14 +294,7 @@ export class QueryableIndex extends IndexStore {
     let kHi = -Infinity
     for (let i = 0; i < hits.length; i++) {
       const s = hits[i]!
-      // facet columns hold 1 + the value's position in its field (0 = none), so no test is needed
-      n0[c0[s]!]!++
-      n1[c1[s]!]!++
-      n2[c2[s]!]!++
-      n3[c3[s]!]!++
-      n4[c4[s]!]!++
-      const y = yc[s]! - FIRST_YEAR
-      if (y >= 0 && y < YEAR_SPAN) byYear[y]!++
+      perTuple[tc[s]!]!++
       // NaN (no value) never wins a comparison
       let x = dg[s]!
       if (x < dgLo) dgLo = x
@@ -281,6 +309,17 @@ export class QueryableIndex extends IndexStore {
       if (x < kLo) kLo = x
       if (x > kHi) kHi = x
     }
+    const counts = fields.map(f => new Int32Array(this.fieldValues[f]!.length + 1))
+    const byYear = new Int32Array(YEAR_SPAN)
+    const tv = this.tupleVals
+    for (let t = 0; t < nTuples; t++) {
+      const c = perTuple[t]!
+      if (!c) continue
+      const base = t * TUPLE_WIDTH
+      for (let k = 0; k < fields.length; k++) counts[k]![tv[base + k]!]! += c
+      const y = tv[base + fields.length]! - FIRST_YEAR
+      if (y >= 0 && y < YEAR_SPAN) byYear[y]! += c
+    }
     const named = (counts: Int32Array, f: number) => {
       const own = this.fieldValues[f]!
       const out: [string, number][] = []
@@ -290,7 +329,7 @@ export class QueryableIndex extends IndexStore {
     const years: [string, number][] = []
     for (let y = 0; y < YEAR_SPAN; y++) if (byYear[y]) years.push([String(FIRST_YEAR + y), byYear[y]!])
     const range = (lo: number, hi: number) => (Number.isFinite(lo) ? { min: lo, max: hi } : null)
-    const [process, solvent, technique, linkage, lab] = [n0, n1, n2, n3, n4].map((c, i) => named(c, fields[i]!))
+    const [process, solvent, technique, linkage, lab] = counts.map((c, i) => named(c, fields[i]!))
     return {
       facets: {
         process: process!,

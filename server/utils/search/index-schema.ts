@@ -48,6 +48,11 @@ export const TEXT_FIELDS = [
 ] as const
 export type TextField = (typeof TEXT_FIELDS)[number]
 export const FIELD_NO = Object.fromEntries(TEXT_FIELDS.map((f, i) => [f, i])) as Record<TextField, number>
+export const FACET_FIELD_NOS = FACET_FIELDS.map(f => FIELD_NO[f])
+/** Notes are indexed per record (index-notes.ts), not as shared values. */
+export const NOTES = FIELD_NO.notes
+/** Numbers kept per facet tuple: one per facet field, then the year. */
+export const TUPLE_WIDTH = FACET_FIELDS.length + 1
 
 /** Prefix matching from 3 characters and typo tolerance (at most 2 edits) from 5: short terms explode the candidate set. */
 /**
@@ -100,7 +105,7 @@ export const YEAR_SPAN = 200
 export const NUMBERS = ['deltaG', 'temperatureK', 'distance', 'log10Rate', 'pekar'] as const
 export type NumberColumn = (typeof NUMBERS)[number]
 
-export function grow<T extends Float64Array | Int32Array | Uint8Array> (a: T, size: number): T {
+export function grow<T extends Float64Array | Int32Array | Uint16Array | Uint8Array> (a: T, size: number): T {
   if (a.length >= size) return a
   const b = new (a.constructor as new (n: number) => T)(Math.max(size, a.length * 2, 1024))
   b.set(a)

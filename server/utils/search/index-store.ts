@@ -1,14 +1,15 @@
 /** The record index's storage: a value dictionary with posting lists, and typed-array columns per record. */
 import MiniSearch from 'minisearch'
 import {
-  FACET_FIELDS, NUMBERS, type NumberColumn, SEARCH_OPTIONS, type SearchDoc, TEXT_FIELDS, type TextField, grow,
+  FACET_FIELD_NOS, NOTES, NUMBERS, TUPLE_WIDTH, type NumberColumn, SEARCH_OPTIONS, type SearchDoc, TEXT_FIELDS, type TextField, grow,
   indexTokenize, queryTokenize
 } from './index-schema'
+import { NotesIndex } from './index-notes'
 
 export class IndexStore {
   /** minisearch over distinct values: document id = value id, the text in the field it came from. */
   readonly text = new MiniSearch<{ id: number } & Partial<Record<TextField, string>>>({
-    fields: [...TEXT_FIELDS],
+    fields: TEXT_FIELDS.filter(f => f !== 'notes'),
     storeFields: [],
     idField: 'id',
     tokenize: indexTokenize,
@@ -38,9 +39,18 @@ export class IndexStore {
     NUMBERS.map(k => [k, new Float64Array(0)])
   ) as never
 
+  /** Value ids per text field (notes excepted: see `notes`). */
   protected textCol: Int32Array[] = TEXT_FIELDS.map(() => new Int32Array(0))
-  /** For facet fields: 1 + the value's position among its field's values, 0 for none. */
-  protected facetCol: Int32Array[] = TEXT_FIELDS.map(() => new Int32Array(0))
+  protected notes = new NotesIndex()
+  /**
+   * Facet combinations: records share few distinct (process, solvent, technique, linkage, lab, year) tuples, so each
+   * record keeps one tuple id and a query counts tuples (one read and one increment per hit instead of six), then
+   * folds the tuple counts into per-facet counts. tupleVals holds, per tuple, TUPLE_WIDTH numbers: for each facet field
+   * 1 + the value's position among its field's values (0 = none), then the year (0 = none).
+   */
+  protected tupleCol = new Int32Array(0)
+  protected tupleKeys = new Map<string, number>()
+  protected tupleVals = new Int32Array(0)
   protected smilesCol = [new Int32Array(0), new Int32Array(0)]
   protected byDataset = new Map<number, Set<number>>()
   /** Morgan fingerprints by SMILES value id (see structures.ts). */
@@ -49,6 +59,9 @@ export class IndexStore {
   protected mask = new Int32Array(0)
   protected score = new Float64Array(0)
   protected touched = new Int32Array(0)
+  /** The current query's selection (reused: a fresh 4 MB array per query at 1 M records kept the collector busy). */
+  protected selBuf = new Int32Array(0)
+  protected tupleCounts = new Int32Array(0)
   /** Bumped on every change; answers cached elsewhere key on it. */
   generation = 0
 
@@ -90,11 +103,12 @@ export class IndexStore {
       this.yearCol[slot] = d.year ?? 0
       this.visCol[slot] = d.visibility === 'public' ? 1 : 2
       for (const k of NUMBERS) this.num[k][slot] = d[k] ?? NaN
+      this.notes.add(slot, d.notes)
       for (let f = 0; f < TEXT_FIELDS.length; f++) {
+        if (f === NOTES) continue
         const t = d[TEXT_FIELDS[f]!]
         const v = t ? this.valueId(f, t) : -1
         this.textCol[f]![slot] = v
-        this.facetCol[f]![slot] = v >= 0 ? this.valueLocal[v]! + 1 : 0
         if (v >= 0) {
           const list = this.postings[v]!
           // a value enters the text index with its first record (again, after its last one left)
@@ -102,6 +116,7 @@ export class IndexStore {
           list.push(slot)
         }
       }
+      this.tupleCol[slot] = this.tupleOf(slot)
       const sm = [d.donorSmiles, d.acceptorSmiles]
       for (let i = 0; i < 2; i++) this.smilesCol[i]![slot] = sm[i] ? this.valueId(TEXT_FIELDS.length + i, sm[i]!) : -1
       let set = this.byDataset.get(d.datasetId)
@@ -115,6 +130,24 @@ export class IndexStore {
     this.generation++
   }
 
+  /** The facet tuple of a record already written to the text columns (see tupleCol). */
+  protected tupleOf (slot: number): number {
+    const vals = FACET_FIELD_NOS.map((f) => {
+      const v = this.textCol[f]![slot]!
+      return v >= 0 ? this.valueLocal[v]! + 1 : 0
+    })
+    vals.push(this.yearCol[slot]!)
+    const key = vals.join(',')
+    let t = this.tupleKeys.get(key)
+    if (t === undefined) {
+      t = this.tupleKeys.size
+      this.tupleKeys.set(key, t)
+      this.tupleVals = grow(this.tupleVals, (t + 1) * TUPLE_WIDTH)
+      this.tupleVals.set(vals, t * TUPLE_WIDTH)
+    }
+    return t
+  }
+
   protected ensure (size: number) {
     if (this.idCol.length >= size) return
     this.idCol = grow(this.idCol, size)
@@ -123,10 +156,8 @@ export class IndexStore {
     this.yearCol = grow(this.yearCol, size)
     this.visCol = grow(this.visCol, size)
     for (const k of NUMBERS) this.num[k] = grow(this.num[k], size)
-    this.textCol = this.textCol.map(c => grow(c, size))
-    this.facetCol = this.facetCol.map((c, f) =>
-      (FACET_FIELDS as readonly string[]).includes(TEXT_FIELDS[f]!) ? grow(c, size) : c
-    )
+    this.textCol = this.textCol.map((c, f) => (f === NOTES ? c : grow(c, size)))
+    this.tupleCol = grow(this.tupleCol, size)
     this.smilesCol = this.smilesCol.map(c => grow(c, size))
   }
 
@@ -150,10 +181,12 @@ export class IndexStore {
       this.free.push(slot)
       this.byDataset.get(this.datasetCol[slot]!)?.delete(id)
       for (let f = 0; f < TEXT_FIELDS.length; f++) {
+        if (f === NOTES) continue
         const v = this.textCol[f]![slot]!
         if (v >= 0) touched.add(v)
       }
     }
+    this.notes.remove(gone)
     for (const v of touched) {
       const left = this.postings[v]!.filter(s => !gone.has(s))
       this.postings[v] = left
@@ -186,6 +219,7 @@ export class IndexStore {
     const s = this.slotOf.get(id)
     if (s === undefined) return undefined
     const text = (f: number) => {
+      if (f === NOTES) return this.notes.noteOf(s)
       const v = this.textCol[f]![s]!
       return v >= 0 ? this.valueText[v]! : ''
     }

@@ -123,3 +123,118 @@ describe('similarity and helpers', () => {
     expect(ix.similar(999, null, 5)).toBeNull()
   })
 })
+
+describe('notes, facet tuples and the fast orders (the index at a million records)', () => {
+  it('notes match by word, prefix and typo, leave with their records, and never hint from a hidden draft', () => {
+    const ix = new RecordIndex()
+    ix.add([
+      doc(1, { notes: 'degassed by freeze pump thaw; sample S1234' }),
+      doc(2, { notes: 'measured under argon' }),
+      doc(3, { notes: 'confidential quencher batch', visibility: 'draft', labId: 2, datasetId: 2 })
+    ])
+    const q = (text: string, labIds?: number[]) => ids(ix.search({ q: text, page: 1, pageSize: 10 }, labIds ? { labIds } : null))
+    expect(q('degassed')).toEqual([1])
+    expect(q('degas')).toEqual([1]) // prefix
+    expect(q('argn')).toEqual([]) // 4 letters: no typo allowed (SEARCH_OPTIONS)
+    expect(q('degasesd')).toEqual([1]) // swapped letters, 8 letters: two edits
+    expect(q('s1234')).toEqual([1]) // codes with letters are words
+    expect(q('porphyrin argon')).toEqual([2]) // AND across notes and names
+    expect(q('confidential')).toEqual([])
+    expect(q('confidential', [2])).toEqual([3])
+    expect(ix.search({ q: 'confidentail', page: 1, pageSize: 10 }, null).suggestion).toBeUndefined()
+    expect(ix.search({ q: 'confidentail', page: 1, pageSize: 10 }, { labIds: [2] }).suggestion).toBe('confidential')
+    expect(ix.doc(2)!.notes).toBe('measured under argon')
+    // the record is read again with other notes: old words gone, new ones found
+    ix.add([doc(2, { notes: 'measured under nitrogen' })])
+    expect(q('argon')).toEqual([])
+    expect(q('nitrogen')).toEqual([2])
+    ix.removeDatasets([2])
+    expect(q('confidential', [2])).toEqual([])
+  })
+
+  it('scores notes as minisearch scores the same notes (reference: minisearch 7.2 itself)', async () => {
+    const { default: MiniSearch } = await import('minisearch')
+    const { indexTokenize, SEARCH_OPTIONS } = await import('../../../../../server/utils/search/index-schema')
+    // notes without repeated words (the index counts a word once per note) and no names elsewhere to match
+    const notes = ['laser flash photolysis at 355 nm', 'flash photolysis with a ns laser', 'photolysis in frozen glass',
+      'streak camera with femtosecond laser pulses', 'laser power dependence checked', 'pulse radiolysis reference']
+    const ix = new RecordIndex()
+    ix.add(notes.map((n, i) => doc(i + 1, { notes: n, donor: 'X', acceptor: 'Y', classes: '', solvent: '', datasetTitle: 'T', lab: 'L' })))
+    const ms = new MiniSearch({ fields: ['notes'], tokenize: (t: string) => indexTokenize(t, 'notes'), searchOptions: SEARCH_OPTIONS })
+    ms.addAll(notes.map((n, i) => ({ id: i + 1, notes: n })))
+    for (const word of ['laser', 'photolysis', 'flsh', 'las', 'pulse']) {
+      const ours = ix.search({ q: word, page: 1, pageSize: 10 }, null).ids
+      const ref = ms.search(word, { combineWith: 'OR' })
+      expect(ours.map(x => x.id).sort()).toEqual(ref.map(r => r.id).sort())
+      for (const r of ref) expect(ours.find(x => x.id === r.id)!.score).toBeCloseTo(r.score, 10)
+    }
+  })
+
+  it('facet counts and ranges equal a count over the visible documents, through adds, replacements and removals', () => {
+    const rnd = (() => {
+      let s = 7
+      return () => (s = (s * 48271) % 2147483647) / 2147483647
+    })()
+    const pick = <T>(xs: T[]) => xs[Math.floor(rnd() * xs.length)]!
+    const make = (id: number): SearchDoc => doc(id, {
+      datasetId: 1 + (id % 7), labId: 1 + (id % 3), visibility: rnd() < 0.2 ? 'draft' : 'public',
+      process: pick(['charge-separation', 'charge-recombination', 'charge-shift']), solvent: pick(['toluene', 'water', '']),
+      technique: pick(['tcspc', 'transient-absorption']), linkage: pick(['covalent', 'bimolecular']), lab: `Lab ${id % 3}`,
+      year: pick([2021, 2024, null]), deltaG: rnd() < 0.1 ? null : -2 * rnd(), distance: rnd() < 0.3 ? null : 20 * rnd(),
+      temperatureK: 200 + 100 * rnd(), log10Rate: 6 + 6 * rnd()
+    })
+    const ix = new RecordIndex()
+    const live = new Map<number, SearchDoc>()
+    const put = (d: SearchDoc[]) => {
+      ix.add(d)
+      for (const x of d) live.set(x.id, x)
+    }
+    put(Array.from({ length: 300 }, (_, i) => make(i + 1)))
+    put(Array.from({ length: 50 }, (_, i) => make(i * 3 + 1))) // replacements
+    ix.removeDatasets([4])
+    for (const [id, d] of live) if (d.datasetId === 4) live.delete(id)
+    put(Array.from({ length: 40 }, (_, i) => make(1000 + i))) // reuse freed slots
+    for (const viewer of [null, { labIds: [2] }]) {
+      for (const query of [{}, { solvent: 'water' }, { process: 'charge-shift', deltaGMin: -1 }, { technique: 'tcspc', yearMin: 2022 }]) {
+        const got = ix.search({ ...query, page: 1, pageSize: 500 }, viewer)
+        const want = [...live.values()].filter(d =>
+          (d.visibility === 'public' || viewer?.labIds.includes(d.labId))
+          && Object.entries(query).every(([k, v]) => k === 'deltaGMin'
+            ? d.deltaG !== null && d.deltaG >= (v as number)
+            : k === 'yearMin' ? d.year !== null && d.year >= (v as number) : d[k as keyof SearchDoc] === v))
+        expect(got.total).toBe(want.length)
+        expect(got.ids.map(x => x.id)).toEqual(want.map(d => d.id).sort((a, b) => a - b))
+        const count = (f: keyof SearchDoc) => {
+          const out: Record<string, number> = {}
+          for (const d of want) if (d[f]) out[String(d[f])] = (out[String(d[f])] ?? 0) + 1
+          return out
+        }
+        for (const f of ['process', 'solvent', 'technique', 'linkage', 'lab', 'year'] as const) expect(got.facets[f]).toEqual(count(f))
+        const dg = want.map(d => d.deltaG).filter((x): x is number => x !== null)
+        expect(got.ranges.deltaG).toEqual(dg.length ? { min: Math.min(...dg), max: Math.max(...dg) } : null)
+        const r = want.map(d => d.distance).filter((x): x is number => x !== null)
+        expect(got.ranges.distance).toEqual(r.length ? { min: Math.min(...r), max: Math.max(...r) } : null)
+      }
+    }
+  })
+
+  it('the fast orders give what the comparator gives, with ties, missing values and both directions', async () => {
+    const { topKByKey, topKById } = await import('../../../../../server/utils/search/index-math')
+    const n = 5000
+    const key = Float64Array.from({ length: n }, (_, i) => (i % 17 === 0 ? NaN : Math.round(Math.sin(i) * 50) / 10))
+    const idOf = Int32Array.from({ length: n }, (_, i) => ((i * 7919) % n) + 1)
+    const xs = Int32Array.from({ length: 3000 }, (_, i) => (i * 13) % n)
+    for (const k of [1, 50, 2999, 3000, 4000]) {
+      for (const dir of [1, -1] as const) {
+        const cmp = (a: number, b: number) => {
+          const x = key[a]!
+          const y = key[b]!
+          if (Number.isNaN(x) || Number.isNaN(y)) return Number.isNaN(x) ? (Number.isNaN(y) ? idOf[a]! - idOf[b]! : 1) : -1
+          return (x - y) * dir || idOf[a]! - idOf[b]!
+        }
+        expect(topKByKey(xs, k, key, dir, idOf)).toEqual(topK(xs, k, cmp))
+      }
+      expect(topKById(xs, k, idOf)).toEqual(topK(xs, k, (a, b) => idOf[a]! - idOf[b]!))
+    }
+  })
+})
