@@ -101,6 +101,8 @@ export const rateRecords = sqliteTable(
   t => [
     index('rate_record_version_idx').on(t.versionId, t.position),
     index('rate_record_process_idx').on(t.process),
-    index('rate_record_delta_g_idx').on(t.deltaG)
+    index('rate_record_delta_g_idx').on(t.deltaG),
+    // bundles ask "is any stored CSV line stale?" before every bundle: an index lookup, not a scan of every record
+    index('rate_record_csv_format_idx').on(t.csvFormat)
   ]
 )

@@ -1,0 +1,1 @@
+CREATE INDEX `rate_record_csv_format_idx` ON `rate_record` (`csv_format`);
