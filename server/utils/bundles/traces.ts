@@ -22,8 +22,8 @@ export async function tracesOfSelection (sel: Selection): Promise<{ sha256: stri
     sql`select distinct datasetId, value as h from (
       select dataset_version.dataset_id as datasetId,
         json_extract(rate_record.data, ${sql.raw(PATHS.map(p => `'${p}'`).join(', '))}) as hashes
-      from ${FROM} where ${sel.where} and ${inArray(schema.datasetVersions.datasetId, withTraces)} and instr(rate_record.data, '"provenance"') > 0
-        and json_extract(rate_record.data, '$.provenance') is not null
+      from ${FROM} where ${sel.where} and ${inArray(schema.datasetVersions.datasetId, withTraces)}
+        and instr(rate_record.data, '"provenance"') > 0 and json_extract(rate_record.data, '$.provenance') is not null
     ), json_each(hashes) where value is not null`
   )
   const byDataset = new Map<number, string[]>()
