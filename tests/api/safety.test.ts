@@ -1,5 +1,5 @@
 import { spawn } from 'node:child_process'
-import { readFileSync, readdirSync, writeFileSync, openSync, writeSync, closeSync, statSync, mkdtempSync, existsSync } from 'node:fs'
+import { readFileSync, readdirSync, writeFileSync, openSync, writeSync, closeSync, statSync, mkdtempSync, existsSync, rmSync } from 'node:fs'
 import { tmpdir } from 'node:os'
 import { join } from 'node:path'
 import { afterAll, beforeAll, describe, expect, it } from 'vitest'
@@ -45,6 +45,7 @@ describe('crash safety and start-up checks', () => {
     let out = ''
     proc.stdout.on('data', (d) => { out += d }); proc.stderr.on('data', (d) => { out += d })
     const code = await new Promise<number | null>(r => proc.on('exit', r))
+    rmSync(dir, { recursive: true, force: true }) // the damaged copy is not kept in the machine's temp folder
     expect(code).toBe(1)
     expect(out).toMatch(/\[crosspoint\] start-up failed: The database file:.*bad\.db is damaged \(integrity check: .+\)\. Crosspoint will not serve it; restore the newest backup with npm run restore/)
   })

@@ -88,8 +88,8 @@ export class NotesIndex {
 
   /**
    * The notes matching one query word: exactly, by prefix (from 3 letters) or within the edits SEARCH_OPTIONS allows,
-   * as lists of slots with the weight minisearch would give the word (match kind × IDF); `score` finishes the BM25+ sum
-   * for one slot.
+   * as lists of slots with the weight minisearch would give the word (match kind × IDF); `accumulate` finishes the
+   * BM25+ sum per note.
    */
   match (word: string): { slots: number[], weight: number }[] {
     if (!this.count) return []
@@ -115,9 +115,45 @@ export class NotesIndex {
     }))
   }
 
-  /** BM25+'s term-frequency part for a note holding the word once, as minisearch's calcBM25Score. */
-  score (slot: number): number {
-    const avg = this.tokens / this.count
-    return BM25.d + (BM25.k + 1) / (1 + BM25.k * (1 - BM25.b + (BM25.b * this.length[slot]!) / avg))
+  /** textHits' accumulation (index-query.ts) for one matched word's notes, each scored by its length (BM25+). */
+  accumulate (
+    slots: number[],
+    weight: number,
+    bits: number,
+    mask: Int32Array,
+    score: Float64Array,
+    touched: Int32Array,
+    nt: number
+  ): number {
+    return accumulateNotes(slots, weight, bits, mask, score, touched, nt, this.length, this.tokens / this.count)
   }
+}
+
+/**
+ * BM25+ as minisearch's calcBM25Score with term frequency 1: weight · (d + (k + 1) / (1 + k (1 − b + b · length / avg))).
+ * A loop in a function of its own (see index-query.ts on V8 and hot loops).
+ */
+function accumulateNotes (
+  slots: number[],
+  weight: number,
+  bits: number,
+  mask: Int32Array,
+  score: Float64Array,
+  touched: Int32Array,
+  nt: number,
+  length: Uint16Array,
+  avg: number
+): number {
+  const { k, b, d } = BM25
+  for (let i = 0; i < slots.length; i++) {
+    const s = slots[i]!
+    const sc = weight * (d + (k + 1) / (1 + k * (1 - b + (b * length[s]!) / avg)))
+    if (mask[s] === 0) {
+      touched[nt++] = s
+      score[s] = sc
+    }
+    else score[s]! += sc
+    mask[s]! |= bits
+  }
+  return nt
 }

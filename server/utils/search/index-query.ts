@@ -7,10 +7,159 @@ import {
 import { topK, topKById, topKByKey } from './index-math'
 import { IndexStore } from './index-store'
 
+/*
+ * The hot loops, each in a small function of its own with nothing after the loop: written inside the larger methods,
+ * V8 compiled each loop on the fly and threw the code away at the first untried line after it, dozens of times
+ * (--trace-deopt), and the slow queries at a million records ran at half speed. One loop per filter, not one loop
+ * calling a test per record: the call site then sees many closures and V8 stops inlining.
+ */
+/** Keeps the slots with vis === 1 (public), in place; returns the new length. */
+function keepPublic (sel: Int32Array, len: number, vis: Uint8Array): number {
+  let j = 0
+  for (let i = 0; i < len; i++) {
+    const s = sel[i]!
+    if (vis[s] === 1) sel[j++] = s
+  }
+  return j
+}
+/** Keeps the public slots and those of the viewer's labs. */
+function keepVisibleTo (sel: Int32Array, len: number, vis: Uint8Array, lab: Int32Array, labs: Set<number>): number {
+  let j = 0
+  for (let i = 0; i < len; i++) {
+    const s = sel[i]!
+    if (vis[s] === 1 || (vis[s] === 2 && labs.has(lab[s]!))) sel[j++] = s
+  }
+  return j
+}
+function keepEqual (sel: Int32Array, len: number, col: Int32Array, v: number): number {
+  let j = 0
+  for (let i = 0; i < len; i++) {
+    const s = sel[i]!
+    if (col[s] === v) sel[j++] = s
+  }
+  return j
+}
+/** lo ≤ x ≤ hi; NaN (no value) fails every comparison, so a record without the value is outside any range. */
+function keepRange (sel: Int32Array, len: number, col: Float64Array, lo: number, hi: number): number {
+  let j = 0
+  for (let i = 0; i < len; i++) {
+    const s = sel[i]!
+    const x = col[s]!
+    if (x >= lo && x <= hi) sel[j++] = s
+  }
+  return j
+}
+/** The same for an Int32 column (years): one function for both kinds of column ran at half speed. */
+function keepRangeInt (sel: Int32Array, len: number, col: Int32Array, lo: number, hi: number): number {
+  let j = 0
+  for (let i = 0; i < len; i++) {
+    const s = sel[i]!
+    const x = col[s]!
+    if (x >= lo && x <= hi) sel[j++] = s
+  }
+  return j
+}
+/** Copies the slots of `from` that pass visibility into `sel` (vis !== 0 when the viewer has labs: narrow tests those). */
+function copyVisible (from: number[] | null, n: number, sel: Int32Array, vis: Uint8Array, anyLab: boolean): number {
+  let len = 0
+  if (from) {
+    for (let i = 0; i < from.length; i++) {
+      const s = from[i]!
+      if (vis[s] === 1 || (anyLab && vis[s] === 2)) sel[len++] = s
+    }
+  }
+  else {
+    for (let s = 0; s < n; s++) if (vis[s] === 1 || (anyLab && vis[s] === 2)) sel[len++] = s
+  }
+  return len
+}
+/**
+ * Counts the hits per facet tuple into `perTuple` and leaves the ranges' ends in `ends` (min, max of ΔG°, T, distance,
+ * log10 k; ±Infinity when no hit has the value: NaN never wins a comparison).
+ */
+function tally (
+  hits: Int32Array,
+  tc: Int32Array,
+  perTuple: Int32Array,
+  dg: Float64Array,
+  tk: Float64Array,
+  ds: Float64Array,
+  lk: Float64Array,
+  ends: Float64Array
+): void {
+  let dgLo = Infinity
+  let dgHi = -Infinity
+  let tLo = Infinity
+  let tHi = -Infinity
+  let dLo = Infinity
+  let dHi = -Infinity
+  let kLo = Infinity
+  let kHi = -Infinity
+  for (let i = 0; i < hits.length; i++) {
+    const s = hits[i]!
+    perTuple[tc[s]!]!++
+    let x = dg[s]!
+    if (x < dgLo) dgLo = x
+    if (x > dgHi) dgHi = x
+    x = tk[s]!
+    if (x < tLo) tLo = x
+    if (x > tHi) tHi = x
+    x = ds[s]!
+    if (x < dLo) dLo = x
+    if (x > dHi) dHi = x
+    x = lk[s]!
+    if (x < kLo) kLo = x
+    if (x > kHi) kHi = x
+  }
+  ends[0] = dgLo
+  ends[1] = dgHi
+  ends[2] = tLo
+  ends[3] = tHi
+  ends[4] = dLo
+  ends[5] = dHi
+  ends[6] = kLo
+  ends[7] = kHi
+}
+
+/**
+ * Adds one matched value's records to the text hits: score `sc`, query-term bits `bits`; a slot met for the first time
+ * is listed in `touched`. Returns the new count of touched slots.
+ */
+function accumulate (
+  list: number[],
+  sc: number,
+  bits: number,
+  mask: Int32Array,
+  score: Float64Array,
+  touched: Int32Array,
+  nt: number
+): number {
+  for (let i = 0; i < list.length; i++) {
+    const s = list[i]!
+    if (mask[s] === 0) {
+      touched[nt++] = s
+      score[s] = sc
+    }
+    else score[s]! += sc
+    mask[s]! |= bits
+  }
+  return nt
+}
+/** The touched slots holding every query term (`full` bits) go to `out`; every mask is cleared. Returns their count. */
+function keepFull (touched: Int32Array, nt: number, mask: Int32Array, full: number, out: Int32Array): number {
+  let n = 0
+  for (let i = 0; i < nt; i++) {
+    const s = touched[i]!
+    if (mask[s] === full) out[n++] = s
+    mask[s] = 0
+  }
+  return n
+}
+
 export class QueryableIndex extends IndexStore {
   /**
    * Narrows a list of slots to those passing the query's filters (visibility, lab, facet values by
-   * value id, ranges), one tight loop per filter over the columns; false when a facet value is unknown.
+   * value id, ranges), one tight loop per filter over the columns; 0 when a facet value is unknown.
    */
   protected narrow (
     sel: Int32Array,
@@ -20,48 +169,16 @@ export class QueryableIndex extends IndexStore {
     visChecked: boolean,
     fieldDone?: string
   ): number {
-    // Written out loop by loop on purpose: one shared loop calling a test closure per record was
-    // twice as slow (the call site sees many closures and V8 stops inlining).
-    const vis = this.visCol
-    const lab = this.labCol
-    let j = 0
-    if (visChecked && !labs.size) j = len
-    else if (labs.size) {
-      for (let i = 0; i < len; i++) {
-        const s = sel[i]!
-        if (vis[s] === 1 || (vis[s] === 2 && labs.has(lab[s]!))) sel[j++] = s
-      }
-    }
-    else {
-      for (let i = 0; i < len; i++) {
-        const s = sel[i]!
-        if (vis[s] === 1) sel[j++] = s
-      }
-    }
-    len = j
-    if (query.labId) {
-      const want = query.labId
-      j = 0
-      for (let i = 0; i < len; i++) {
-        const s = sel[i]!
-        if (lab[s] === want) sel[j++] = s
-      }
-      len = j
-    }
+    if (labs.size) len = keepVisibleTo(sel, len, this.visCol, this.labCol, labs)
+    else if (!visChecked) len = keepPublic(sel, len, this.visCol)
+    if (query.labId) len = keepEqual(sel, len, this.labCol, query.labId)
     for (const f of ['process', 'solvent', 'technique', 'linkage'] as const) {
       const want = query[f]
       if (!want || f === fieldDone) continue
       const v = this.valueKeys[FIELD_NO[f]]!.get(want)
       if (v === undefined) return 0
-      const col = this.textCol[FIELD_NO[f]]!
-      j = 0
-      for (let i = 0; i < len; i++) {
-        const s = sel[i]!
-        if (col[s] === v) sel[j++] = s
-      }
-      len = j
+      len = keepEqual(sel, len, this.textCol[FIELD_NO[f]]!, v)
     }
-    // NaN (no value) fails every comparison, so a record without the value is outside any range
     const ranges: [Float64Array, number | undefined, number | undefined][] = [
       [this.num.deltaG, query.deltaGMin, query.deltaGMax],
       [this.num.temperatureK, query.temperatureMin, query.temperatureMax],
@@ -69,30 +186,11 @@ export class QueryableIndex extends IndexStore {
       [this.num.log10Rate, query.log10RateMin, query.log10RateMax]
     ]
     for (const [col, min, max] of ranges) {
-      if (min === undefined && max === undefined) continue
-      const lo = min ?? -Infinity
-      const hi = max ?? Infinity
-      j = 0
-      for (let i = 0; i < len; i++) {
-        const s = sel[i]!
-        const x = col[s]!
-        if (x >= lo && x <= hi) sel[j++] = s
-      }
-      len = j
+      if (min !== undefined || max !== undefined) len = keepRange(sel, len, col, min ?? -Infinity, max ?? Infinity)
     }
-    // years apart (an Int32 column; one loop over both kinds of column ran at half speed): 0 = no year, below any minimum
-    if (query.yearMin !== undefined || query.yearMax !== undefined) {
-      const lo = query.yearMin ?? 1
-      const hi = query.yearMax ?? Infinity
-      const col = this.yearCol
-      j = 0
-      for (let i = 0; i < len; i++) {
-        const s = sel[i]!
-        const x = col[s]!
-        if (x >= lo && x <= hi) sel[j++] = s
-      }
-      len = j
-    }
+    // 0 = no year, below any minimum
+    if (query.yearMin !== undefined || query.yearMax !== undefined)
+      len = keepRangeInt(sel, len, this.yearCol, query.yearMin ?? 1, query.yearMax ?? Infinity)
     return len
   }
 
@@ -130,19 +228,7 @@ export class QueryableIndex extends IndexStore {
           fieldDone = f
         }
       }
-      const vis = this.visCol
-      if (from && labs.size) {
-        for (let i = 0; i < from.length; i++) if (vis[from[i]!]) sel[len++] = from[i]!
-      }
-      else if (from) {
-        for (let i = 0; i < from.length; i++) if (vis[from[i]!] === 1) sel[len++] = from[i]!
-      }
-      else if (labs.size) {
-        for (let s = 0; s < this.n; s++) if (vis[s]) sel[len++] = s
-      }
-      else {
-        for (let s = 0; s < this.n; s++) if (vis[s] === 1) sel[len++] = s
-      }
+      len = copyVisible(from ?? null, this.n, sel, this.visCol, labs.size > 0)
     }
     len = this.narrow(sel, len, query, labs, !scored && !query.ids, fieldDone)
     const hits = sel.subarray(0, len)
@@ -207,39 +293,13 @@ export class QueryableIndex extends IndexStore {
     for (const r of results) {
       let bits = 0
       for (const t of r.queryTerms) bits |= bit.get(t) ?? 0
-      const list = this.postings[r.id as number]!
-      const sc = r.score
-      for (let i = 0; i < list.length; i++) {
-        const s = list[i]!
-        if (mask[s] === 0) {
-          touched[nt++] = s
-          score[s] = sc
-        }
-        else score[s]! += sc
-        mask[s]! |= bits
-      }
+      nt = accumulate(this.postings[r.id as number]!, r.score, bits, mask, score, touched, nt)
     }
     // notes: their own index (index-notes.ts), the same accumulation
     for (const [term, bits] of bit) {
-      for (const { slots, weight } of this.notes.match(term)) {
-        for (let i = 0; i < slots.length; i++) {
-          const s = slots[i]!
-          const sc = weight * this.notes.score(s)
-          if (mask[s] === 0) {
-            touched[nt++] = s
-            score[s] = sc
-          }
-          else score[s]! += sc
-          mask[s]! |= bits
-        }
-      }
+      for (const { slots, weight } of this.notes.match(term)) nt = this.notes.accumulate(slots, weight, bits, mask, score, touched, nt)
     }
-    let n = 0
-    for (let i = 0; i < nt; i++) {
-      const s = touched[i]!
-      if (mask[s] === full) out[n++] = s
-      mask[s] = 0
-    }
+    const n = keepFull(touched, nt, mask, full, out)
     return out.subarray(0, n)
   }
 
@@ -279,36 +339,9 @@ export class QueryableIndex extends IndexStore {
     if (this.tupleCounts.length < nTuples) this.tupleCounts = new Int32Array(Math.max(nTuples * 2, 1024))
     const perTuple = this.tupleCounts
     perTuple.fill(0, 0, nTuples)
-    const tc = this.tupleCol
-    const dg = this.num.deltaG
-    const tk = this.num.temperatureK
-    const ds = this.num.distance
-    const lk = this.num.log10Rate
-    let dgLo = Infinity
-    let dgHi = -Infinity
-    let tLo = Infinity
-    let tHi = -Infinity
-    let dLo = Infinity
-    let dHi = -Infinity
-    let kLo = Infinity
-    let kHi = -Infinity
-    for (let i = 0; i < hits.length; i++) {
-      const s = hits[i]!
-      perTuple[tc[s]!]!++
-      // NaN (no value) never wins a comparison
-      let x = dg[s]!
-      if (x < dgLo) dgLo = x
-      if (x > dgHi) dgHi = x
-      x = tk[s]!
-      if (x < tLo) tLo = x
-      if (x > tHi) tHi = x
-      x = ds[s]!
-      if (x < dLo) dLo = x
-      if (x > dHi) dHi = x
-      x = lk[s]!
-      if (x < kLo) kLo = x
-      if (x > kHi) kHi = x
-    }
+    const ends = new Float64Array(8)
+    tally(hits, this.tupleCol, perTuple, this.num.deltaG, this.num.temperatureK, this.num.distance, this.num.log10Rate, ends)
+    const [dgLo, dgHi, tLo, tHi, dLo, dHi, kLo, kHi] = ends as unknown as number[]
     const counts = fields.map(f => new Int32Array(this.fieldValues[f]!.length + 1))
     const byYear = new Int32Array(YEAR_SPAN)
     const tv = this.tupleVals
