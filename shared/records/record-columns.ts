@@ -18,6 +18,18 @@ export function recordColumns (r: RateRecordV1) {
     rate: r.rate.value,
     rateKind: r.rate.kind,
     log10Rate: Math.log10(r.rate.value),
-    deltaG: r.drivingForce?.value ?? null
+    deltaG: r.drivingForce?.value ?? null,
+    donorClass: r.system.donor.class ?? null,
+    acceptorClass: r.system.acceptor.class ?? null,
+    donorSmiles: r.system.donor.smiles ?? null,
+    acceptorSmiles: r.system.acceptor.smiles ?? null,
+    notes: r.notes ?? null,
+    solventPolarity: solventPolarity(r)
   }
+}
+
+/** 1/n² − 1/ε_s (Pekar factor) when the record gives refractive index and permittivity, else null. */
+export function solventPolarity (r: RateRecordV1): number | null {
+  const { permittivity: eps, refractiveIndex: n } = r.medium
+  return eps && n ? 1 / (n * n) - 1 / eps : null
 }

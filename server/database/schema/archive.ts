@@ -91,6 +91,17 @@ export const rateRecords = sqliteTable(
     log10Rate: real('log10_rate').notNull(),
     /** Driving force ΔG°, eV. */
     deltaG: real('delta_g'),
+    /**
+     * Copies of record fields search reads at start (with the names above): reading them from the JSON cost a parse per
+     * record, most of the start-up at a million records. Written by recordColumns with the record, like the rest.
+     */
+    donorClass: text('donor_class'),
+    acceptorClass: text('acceptor_class'),
+    donorSmiles: text('donor_smiles'),
+    acceptorSmiles: text('acceptor_smiles'),
+    notes: text('notes'),
+    /** Solvent polarity 1/n² − 1/ε_s when the record gives both (the similarity score's polarity). */
+    solventPolarity: real('solvent_polarity'),
     /** The record's row of a bundle's records.csv (see shared/records/csv.ts), kept so bundles need not parse the JSON. */
     csvLine: text('csv_line'),
     /** CSV_FORMAT the line was made with; other formats are recomputed before use. */

@@ -1,5 +1,5 @@
 /** After publication: new versions, correction versions with re-derived ΔG°, and withdrawal with a tombstone. */
-import { and, eq, sql } from 'drizzle-orm'
+import { and, eq } from 'drizzle-orm'
 import { audit } from '../storage/audit'
 import { useDb, schema, type Tx } from '../storage/db'
 import { httpError, MESSAGES } from '../http/errors'
@@ -7,6 +7,7 @@ import type { Viewer } from '../accounts/auth'
 import { publicUrl, sendMail } from '../services/mail'
 import { afterDatasetChange } from '../search/search'
 import { rederiveVersions } from './derivations'
+import { copyRecords } from './copy-records'
 import { OWN_LAB, type Version, labEmails, latestVersion } from './common'
 
 const { datasets, datasetVersions: versions } = schema
@@ -55,11 +56,7 @@ async function copyToDraft (tx: Tx, latest: Version): Promise<Version> {
       recordCount: latest.recordCount
     })
     .returning()
-  await tx.run(sql`insert into rate_record (version_id, position, record_key, data, donor_name, acceptor_name, bridge_name,
-      linkage, process, solvent, technique, temperature_k, distance_angstrom, rate, rate_kind, log10_rate, delta_g, is_demo)
-    select ${nv!.id}, position, record_key, data, donor_name, acceptor_name, bridge_name,
-      linkage, process, solvent, technique, temperature_k, distance_angstrom, rate, rate_kind, log10_rate, delta_g, is_demo
-    from rate_record where version_id = ${latest.id}`)
+  await copyRecords(tx, latest.id, nv!.id)
   return nv!
 }
 

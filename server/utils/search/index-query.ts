@@ -341,7 +341,7 @@ export class QueryableIndex extends IndexStore {
     perTuple.fill(0, 0, nTuples)
     const ends = new Float64Array(8)
     tally(hits, this.tupleCol, perTuple, this.num.deltaG, this.num.temperatureK, this.num.distance, this.num.log10Rate, ends)
-    const [dgLo, dgHi, tLo, tHi, dLo, dHi, kLo, kHi] = ends as unknown as number[]
+    const [dgLo, dgHi, tLo, tHi, dLo, dHi, kLo, kHi] = ends as unknown as [number, number, number, number, number, number, number, number]
     const counts = fields.map(f => new Int32Array(this.fieldValues[f]!.length + 1))
     const byYear = new Int32Array(YEAR_SPAN)
     const tv = this.tupleVals

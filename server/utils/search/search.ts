@@ -4,7 +4,7 @@
  * so that changes made by other instances arrive too). Visibility is decided per query: published
  * records for everyone, a lab's own drafts for its members.
  */
-import { and, asc, eq, gt, inArray, sql } from 'drizzle-orm'
+import { and, eq, gt, inArray, sql } from 'drizzle-orm'
 import { consola } from 'consola'
 import { useDb, schema } from '../storage/db'
 import type { Viewer } from '../accounts/auth'
@@ -12,6 +12,7 @@ import { RecordIndex } from './record-index'
 import type { SearchAnswer, SearchDoc, SearchQuery } from './index-schema'
 import { fingerprintsFor } from './structures'
 import type { RateRecordV1 } from '../../../shared/records/types'
+import { solventPolarity } from '../../../shared/records/record-columns'
 
 interface State {
   index: RecordIndex
@@ -58,10 +59,7 @@ export function toDoc (r: {
     temperatureK: r.temperatureK,
     distance: r.distance,
     log10Rate: r.log10Rate,
-    pekar:
-      d.medium.permittivity && d.medium.refractiveIndex
-        ? 1 / d.medium.refractiveIndex ** 2 - 1 / d.medium.permittivity
-        : null,
+    pekar: solventPolarity(d),
     donorSmiles: d.system.donor.smiles ?? null,
     acceptorSmiles: d.system.acceptor.smiles ?? null
   }
@@ -123,36 +121,32 @@ async function* loadDocs (datasetIds?: number[]): AsyncGenerator<SearchDoc[]> {
       ])
   )
   if (!wanted.size) return
-  // One JSON array per row: the client converts each cell to a JS value at about a microsecond a cell, so twenty
-  // columns cost several times what one text column and JSON.parse do. Column numbers travel as quote() text, which
-  // SQLite writes with enough digits to give back the same double (its JSON rendering of an SQL number keeps 15);
-  // numbers inside the record's JSON come back as written there. One json_extract with every path parses the
-  // record's JSON once (a parse is most of the cost: three of them took 23 s of 27 at a million records).
+  // A page is one JSON text (json_group_array of one array per record): the client turns each cell of each row into a
+  // JS value one by one, which took longer than SQLite's own work; one cell per page and JSON.parse do not. Numbers
+  // travel as quote() text, which SQLite writes with enough digits to give back the same double (its JSON rendering
+  // keeps 15). Every field is a column (recordColumns): reading them from the record's JSON cost a parse per record.
   const num = (x: unknown) => sql`quote(${x})`
-  const fields = sql<string>`json_array(${num(r.deltaG)}, ${num(r.temperatureK)}, ${num(r.distanceAngstrom)},
+  const item = sql`json_array(${r.id}, ${r.position}, ${num(r.deltaG)}, ${num(r.temperatureK)}, ${num(r.distanceAngstrom)},
     ${num(r.log10Rate)}, ${r.donorName}, ${r.acceptorName}, ${r.bridgeName}, ${r.linkage}, ${r.process}, ${r.solvent},
-    ${r.technique}, json_extract(${r.data}, '$.system.donor.class', '$.system.acceptor.class', '$.notes',
-      '$.system.donor.smiles', '$.system.acceptor.smiles', '$.medium.permittivity', '$.medium.refractiveIndex'))`
-  type Row = [string, string, string, string, string, string, string | null, string, string, string | null,
-    string | null, [string | null, string | null, string | null, string | null, string | null, number | null, number | null]]
+    ${r.technique}, ${r.donorClass}, ${r.acceptorClass}, ${r.notes}, ${r.donorSmiles}, ${r.acceptorSmiles},
+    ${num(r.solventPolarity)})`
+  type Row = [number, number, string, string, string, string, string, string, string | null, string, string, string | null,
+    string | null, string | null, string | null, string | null, string | null, string | null, string]
   const number = (q: string) => (q === 'NULL' ? null : Number(q))
   // Version by version, in pages along the (version_id, position) index: one query over all wanted versions ordered by
   // id had SQLite sort every remaining row (and build its JSON) for each page — quadratic, 28 s at a million records.
   for (const versionId of wanted.keys()) {
-    let after = { position: Number.MIN_SAFE_INTEGER, id: 0 }
+    let after: [number, number] = [0, Number.MIN_SAFE_INTEGER] // [id, position] of the last record read
     for (;;) {
-      const rows = await db
-        .select({ id: r.id, position: r.position, fields })
-        .from(r)
-        .where(and(eq(r.versionId, versionId), sql`(${r.position}, ${r.id}) > (${after.position}, ${after.id})`))
-        .orderBy(asc(r.position), asc(r.id))
-        .limit(LOAD_PAGE)
+      const [{ page }] = await db.all<{ page: string }>(sql`select json_group_array(json(item)) as page from (
+        select ${item} as item from ${r} where ${r.versionId} = ${versionId} and (${r.position}, ${r.id}) > (${after[1]}, ${after[0]})
+        order by ${r.position}, ${r.id} limit ${LOAD_PAGE})`) as [{ page: string }]
+      const rows = JSON.parse(page) as Row[]
       if (!rows.length) break
-      after = rows[rows.length - 1]!
-      yield rows.map(({ id, fields }) => {
-        const [dg, tk, dist, lk, donor, acceptor, bridge, linkage, process, solvent, technique, fromJson]
-          = JSON.parse(fields) as Row
-        const [donorClass, acceptorClass, notes, donorSmiles, acceptorSmiles, permittivity, refractiveIndex] = fromJson
+      // the furthest (position, id) read, whatever order the aggregate kept
+      for (const [id, position] of rows) if (position > after[1] || (position === after[1] && id > after[0])) after = [id, position]
+      yield rows.map(([id, , dg, tk, dist, lk, donor, acceptor, bridge, linkage, process, solvent, technique, donorClass,
+        acceptorClass, notes, donorSmiles, acceptorSmiles, polarity]) => {
         const ver = wanted.get(versionId)!
         return {
           id,
@@ -176,7 +170,7 @@ async function* loadDocs (datasetIds?: number[]): AsyncGenerator<SearchDoc[]> {
           temperatureK: number(tk)!,
           distance: number(dist),
           log10Rate: number(lk)!,
-          pekar: permittivity && refractiveIndex ? 1 / refractiveIndex ** 2 - 1 / permittivity : null,
+          pekar: number(polarity),
           donorSmiles,
           acceptorSmiles
         }
