@@ -68,8 +68,6 @@ export async function requireEditableDraft (
   return { viewer, dataset, version }
 }
 
-export { readOriginal, storeOriginal } from '../storage/originals'
-
 /**
  * requireEditableDraft for a route that receives a file: when the caller may not write, the file still on its way
  * is read and dropped (at most `maxBytes`) before the refusal, so the answer is not cut off by an unread body.

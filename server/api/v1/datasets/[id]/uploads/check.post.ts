@@ -1,6 +1,7 @@
 import type { H3Event } from 'h3'
 import { checkFile } from '../../../../../utils/deposit/check'
-import { ingestContext, recordValidator, requireDraftForFile, storeOriginal } from '../../../../../utils/deposit/drafts'
+import { ingestContext, recordValidator, requireDraftForFile } from '../../../../../utils/deposit/drafts'
+import { storeOriginal } from '../../../../../utils/storage/originals'
 import { FileProblem, MAX_FILE_BYTES } from '../../../../../utils/deposit/parse'
 import { httpError } from '../../../../../utils/http/errors'
 import { discardBody, readUploadedFile } from '../../../../../utils/http/body'

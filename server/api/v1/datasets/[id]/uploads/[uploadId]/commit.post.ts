@@ -1,13 +1,8 @@
 import { and, eq, isNull } from 'drizzle-orm'
 import { checkFile } from '../../../../../../utils/deposit/check'
 import type { Mapping } from '../../../../../../../shared/records/mapping'
-import {
-  ingestContext,
-  readOriginal,
-  recordValidator,
-  requireEditableDraft,
-  writeRecords
-} from '../../../../../../utils/deposit/drafts'
+import { ingestContext, recordValidator, requireEditableDraft, writeRecords } from '../../../../../../utils/deposit/drafts'
+import { readOriginal } from '../../../../../../utils/storage/originals'
 import { useDb, schema } from '../../../../../../utils/storage/db'
 import { httpError } from '../../../../../../utils/http/errors'
 import { intParam } from '../../../../../../utils/http/params'
