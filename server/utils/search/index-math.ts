@@ -186,3 +186,14 @@ export function topKById (xs: Int32Array, k: number, ids: Int32Array): number[] 
   const order = Array.from(slot.subarray(0, size))
   return order.sort((a, b) => ids[a]! - ids[b]!)
 }
+
+/** Removes the marked slots from a posting list in place (order kept); returns how many are left. */
+export function dropMarked (list: number[], mark: Uint8Array): number {
+  let j = 0
+  for (let i = 0; i < list.length; i++) {
+    const s = list[i]!
+    if (!mark[s]) list[j++] = s
+  }
+  list.length = j
+  return j
+}

@@ -12,6 +12,7 @@
 import MiniSearch from 'minisearch'
 import SearchableMap from 'minisearch/SearchableMap'
 import { SEARCH_OPTIONS, grow, indexTokenize } from './index-schema'
+import { dropMarked } from './index-math'
 
 const processTerm = MiniSearch.getDefault('processTerm') as (t: string) => string | null | undefined
 /** minisearch 7.2's defaults: weights { fuzzy: 0.45, prefix: 0.375 }, bm25 { k: 1.2, b: 0.7, d: 0.5 }. */
@@ -51,10 +52,10 @@ export class NotesIndex {
     }
   }
 
-  /** Forgets the notes of these slots (before the slots are used again). */
-  remove (gone: Set<number>) {
+  /** Forgets the notes of these slots (marked in `gone`) before the slots are used again. */
+  remove (slots: number[], gone: Uint8Array) {
     const touched = new Set<string>()
-    for (const slot of gone) {
+    for (const slot of slots) {
       const note = this.text[slot]
       if (!note) continue
       for (const w of NotesIndex.words(note)) touched.add(w)
@@ -62,11 +63,7 @@ export class NotesIndex {
       this.tokens -= this.length[slot]!
       this.text[slot] = ''
     }
-    for (const w of touched) {
-      const left = this.terms.get(w)!.filter(s => !gone.has(s))
-      if (left.length) this.terms.set(w, left)
-      else this.terms.delete(w)
-    }
+    for (const w of touched) if (!dropMarked(this.terms.get(w)!, gone)) this.terms.delete(w)
   }
 
   noteOf (slot: number): string {
