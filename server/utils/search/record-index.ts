@@ -9,10 +9,13 @@
  * typo matching, BM25 weighting with field boosts; a posting list per value then maps each matched
  * value to its records, and a bitmask per record keeps the AND semantics across query terms.
  *
+ * Notes are the exception: nearly every note is different, so they are indexed per record (index-notes.ts).
+ *
  * Records: one slot per record in typed-array columns (numbers as Float64 with NaN for "none",
- * text as value ids), so filters, facet counts and ranges are tight loops without per-record objects.
+ * text as value ids, one facet-tuple id for the counts), so filters, facet counts and ranges are tight
+ * loops without per-record objects.
 
- * Layers: index-schema.ts (types, columns) → index-store.ts (storage) → index-query.ts (queries) → this file
+ * Layers: index-schema.ts (types, columns) → index-notes.ts, index-store.ts (storage) → index-query.ts (queries) → this file
  * (similar systems; RecordIndex is the class to use).
  */
 import { FIELD_NO, type TextField } from './index-schema'
