@@ -203,9 +203,8 @@ export class QueryableIndex extends IndexStore {
     const scored = !!query.q?.trim()
     if (this.selBuf.length < this.n) this.selBuf = new Int32Array(this.idCol.length)
     if (scored) {
-      sel = this.textHits(query.q!, this.selBuf)
-      len = sel.length
       sel = this.selBuf
+      len = this.textHits(query.q!, sel).length
     }
     else if (query.ids) {
       sel = new Int32Array(query.ids.length)
